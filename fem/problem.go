@@ -73,4 +73,16 @@ type Problem struct {
 	// AppliedBz is an applied uniform axial flux density, rms phasor in tesla (0 for none); it is imposed on the
 	// far boundary as A = Bz·r/2.
 	AppliedBz complex128
+	// Outer chooses the condition on OuterTag edges.
+	Outer OuterBoundary
+}
+
+// OuterBoundary is the far-boundary condition. With Robin false, A is prescribed there (A = AppliedBz·r/2, the
+// applied field alone). With Robin true, the outer boundary must be a circle of radius Radius centred on the axis
+// at z = CenterZ, and the reaction field (A minus the applied part) satisfies the condition that is exact for a
+// dipole far field, H_t = ν A/R, which lets the boundary sit much closer than a Dirichlet one.
+type OuterBoundary struct {
+	Robin   bool
+	CenterZ float64 // m
+	Radius  float64 // m
 }
