@@ -1,0 +1,254 @@
+package fem
+
+import (
+	"bufio"
+	"fmt"
+	"math"
+	"math/cmplx"
+	"os"
+	"path/filepath"
+)
+
+// QuadPoint is the field at one quadrature point of the solution, for integrating derived quantities:
+// ∫ g 2πr dr dz ≈ Σ g(point)·Weight.
+type QuadPoint struct {
+	Elem   int        // triangle index
+	Tag    int32      // triangle's region tag
+	Region int        // index into Solution.Regions, -1 for untagged air
+	Weight float64    // quadrature weight × area × 2πr, m³ (per radian × 2π)
+	R, Z   float64    // m
+	A      complex128 // Wb/m rms
+	J      complex128 // azimuthal current density, A/m² rms
+	Br, Bz complex128 // T rms
+}
+
+// EachPoint calls fn for every quadrature point of every triangle, in triangle order. The rule is the one the
+// assembly used (Radon's 7 points, 28 on triangles touching the axis).
+func (s *Solution) EachPoint(fn func(QuadPoint)) {
+	m := s.Mesh
+	nl := s.Order.NumNodes()
+	nd := make([]int, nl)
+	sh, dr, dz := make([]float64, nl), make([]float64, nl), make([]float64, nl)
+	w := 2 * math.Pi * s.Frequency
+	for t, tri := range m.Tris {
+		var p [3][2]float64
+		axis := false
+		for k, v := range tri {
+			nd[k] = int(v)
+			p[k] = [2]float64{m.Nodes[v].X, m.Nodes[v].Y}
+			axis = axis || s.axis[v]
+		}
+		if nl == 6 {
+			for k, v := range m.Mid[t] {
+				nd[3+k] = int(v)
+			}
+		}
+		q := &s.rules.Interior
+		if axis {
+			q = &s.rules.Axis
+		}
+		area, gl := triGeom(p)
+		ri := s.elemRg[t]
+		for g, l := range q.L {
+			s.Order.Shape(l, sh)
+			s.Order.ShapeGrad(l, gl, dr, dz)
+			qp := QuadPoint{Elem: t, Tag: m.Tags[t], Region: ri}
+			qp.R = l[0]*p[0][0] + l[1]*p[1][0] + l[2]*p[2][0]
+			qp.Z = l[0]*p[0][1] + l[1]*p[1][1] + l[2]*p[2][1]
+			qp.Weight = q.W[g] * area * 2 * math.Pi * qp.R
+			var dAr, dAz complex128
+			for i, v := range nd {
+				a := s.A[v]
+				qp.A += a * complex(sh[i], 0)
+				dAr += a * complex(dr[i], 0)
+				dAz += a * complex(dz[i], 0)
+			}
+			qp.Br = -dAz
+			qp.Bz = dAr + qp.A/complex(qp.R, 0)
+			qp.J = s.currentDensity(ri, qp.R, qp.A, w)
+			fn(qp)
+		}
+	}
+}
+
+// currentDensity is J in region ri at radius r with potential a (physics.md, Conductors).
+func (s *Solution) currentDensity(ri int, r float64, a complex128, w float64) complex128 {
+	if ri < 0 {
+		return 0
+	}
+	reg := s.Regions[ri]
+	switch reg.Kind {
+	case SolidTurn:
+		return complex(0, -w*reg.Sigma)*a + complex(reg.Sigma/(2*math.Pi*r), 0)*s.TurnU[ri]
+	case Part:
+		return complex(0, -w*reg.Sigma) * a
+	case Stranded:
+		return complex(float64(reg.Strands*reg.Sense)/s.areas[ri], 0) * s.CoilI[reg.Coil]
+	}
+	return 0
+}
+
+// RegionPower is the time-averaged Joule power in the region(s) with the given tag, W: ∫|J|²/σ 2πr dr dz for
+// conductors, Rdc·|I|² for stranded blocks (their copper loss as the job states it).
+func (s *Solution) RegionPower(tag int32) float64 {
+	var p float64
+	for _, r := range s.Regions {
+		if r.Tag == tag && r.Kind == Stranded {
+			p += r.Rdc * sq(cmplx.Abs(s.CoilI[r.Coil]))
+		}
+	}
+	s.EachPoint(func(q QuadPoint) {
+		if q.Tag != tag || q.Region < 0 {
+			return
+		}
+		r := s.Regions[q.Region]
+		if r.Kind != Stranded && r.Sigma > 0 {
+			p += sq(cmplx.Abs(q.J)) / r.Sigma * q.Weight
+		}
+	})
+	return p
+}
+
+// MagneticEnergy is the time-averaged magnetic energy in the whole domain, J: ∫ ν|B|²/2 2πr dr dz.
+func (s *Solution) MagneticEnergy() float64 {
+	var e float64
+	s.EachPoint(func(q QuadPoint) {
+		mur := 1.0
+		if q.Region >= 0 && s.Regions[q.Region].MuR > 0 {
+			mur = s.Regions[q.Region].MuR
+		}
+		e += (sq(cmplx.Abs(q.Br)) + sq(cmplx.Abs(q.Bz))) / (2 * Mu0 * mur) * q.Weight
+	})
+	return e
+}
+
+// Balance compares the complex power the coils deliver, S = Σ V I*, with the Joule power (all regions plus
+// Rdc I² of stranded blocks) and with 2ω W_m. It returns both sides; BalanceError reduces them to one number.
+func (s *Solution) Balance() (supplied complex128, joule, twoOmegaWm float64) {
+	for ci := range s.Coils {
+		supplied += s.CoilV[ci] * cmplx.Conj(s.CoilI[ci])
+	}
+	seen := map[int32]bool{}
+	for _, r := range s.Regions {
+		if !seen[r.Tag] {
+			seen[r.Tag] = true
+			joule += s.RegionPower(r.Tag)
+		}
+	}
+	twoOmegaWm = 2 * 2 * math.Pi * s.Frequency * s.MagneticEnergy()
+	return supplied, joule, twoOmegaWm
+}
+
+// BalanceError is max(|Re S − P|, |Im S − 2ωW_m|)/|S| for a coil-driven solve. With an applied field the
+// source sits outside the domain and S does not account for it, so BalanceError returns NaN.
+func (s *Solution) BalanceError() float64 {
+	sup, p, q := s.Balance()
+	if s.AppliedBz != 0 || sup == 0 {
+		return math.NaN()
+	}
+	return max(math.Abs(real(sup)-p), math.Abs(imag(sup)-q)) / cmplx.Abs(sup)
+}
+
+// FieldValue is the field at one point.
+type FieldValue struct {
+	A, J, Br, Bz complex128
+	Tag          int32
+}
+
+// At evaluates the field at (r, z) (m); ok is false outside the mesh. It searches every triangle (O(n) per
+// call): fine for probes, too slow for maps — use EachPoint for integrals.
+func (s *Solution) At(r, z float64) (v FieldValue, ok bool) {
+	m := s.Mesh
+	nl := s.Order.NumNodes()
+	for t, tri := range m.Tris {
+		var p [3][2]float64
+		for k, n := range tri {
+			p[k] = [2]float64{m.Nodes[n].X, m.Nodes[n].Y}
+		}
+		area, gl := triGeom(p)
+		var l [3]float64
+		in := true
+		for k := range 3 {
+			l[k] = gl[k][0]*(r-p[(k+1)%3][0]) + gl[k][1]*(z-p[(k+1)%3][1])
+			if l[k] < -1e-12 {
+				in = false
+			}
+		}
+		if !in || area <= 0 {
+			continue
+		}
+		nd := make([]int, nl)
+		sh, dr, dz := make([]float64, nl), make([]float64, nl), make([]float64, nl)
+		for k, n := range tri {
+			nd[k] = int(n)
+		}
+		if nl == 6 {
+			for k, n := range m.Mid[t] {
+				nd[3+k] = int(n)
+			}
+		}
+		s.Order.Shape(l, sh)
+		s.Order.ShapeGrad(l, gl, dr, dz)
+		var dAr, dAz complex128
+		for i, n := range nd {
+			v.A += s.A[n] * complex(sh[i], 0)
+			dAr += s.A[n] * complex(dr[i], 0)
+			dAz += s.A[n] * complex(dz[i], 0)
+		}
+		v.Br = -dAz
+		if r > 0 {
+			v.Bz = dAr + v.A/complex(r, 0)
+		} else {
+			v.Bz = 2 * dAr // A = 0 on the axis, so A/r → ∂A/∂r
+		}
+		v.Tag = m.Tags[t]
+		if r > 0 {
+			v.J = s.currentDensity(s.elemRg[t], r, v.A, 2*math.Pi*s.Frequency)
+		}
+		return v, true
+	}
+	return v, false
+}
+
+// ExportSystem writes the solved linear system to dir as A.mtx (Matrix Market coordinate complex symmetric,
+// lower triangle) and b.mtx (array complex general). Unknowns are the free node values (in node order), then
+// turn loop voltages, then currents of voltage-driven coils; rows of circuit unknowns are scaled as in
+// physics.md (divided by jω or −jω).
+func (s *Solution) ExportSystem(dir string) error {
+	write := func(name string, body func(w *bufio.Writer)) error {
+		f, err := os.Create(filepath.Join(dir, name))
+		if err != nil {
+			return fmt.Errorf("export system: %w", err)
+		}
+		w := bufio.NewWriter(f)
+		body(w)
+		if err := w.Flush(); err != nil {
+			f.Close()
+			return fmt.Errorf("export system: %w", err)
+		}
+		if err := f.Close(); err != nil {
+			return fmt.Errorf("export system: %w", err)
+		}
+		return nil
+	}
+	m := s.sys
+	err := write("A.mtx", func(w *bufio.Writer) {
+		fmt.Fprintf(w, "%%%%MatrixMarket matrix coordinate complex symmetric\n%d %d %d\n", m.n, m.n, len(m.val))
+		for j := range m.n {
+			for p := m.colPtr[j]; p < m.colPtr[j+1]; p++ {
+				fmt.Fprintf(w, "%d %d %.17g %.17g\n", m.rowIdx[p]+1, j+1, real(m.val[p]), imag(m.val[p]))
+			}
+		}
+	})
+	if err != nil {
+		return err
+	}
+	return write("b.mtx", func(w *bufio.Writer) {
+		fmt.Fprintf(w, "%%%%MatrixMarket matrix array complex general\n%d 1\n", len(s.rhs))
+		for _, v := range s.rhs {
+			fmt.Fprintf(w, "%.17g %.17g\n", real(v), imag(v))
+		}
+	})
+}
+
+func sq(x float64) float64 { return x * x }
