@@ -123,10 +123,10 @@ func TestWaterAgainstHandbookTable(t *testing.T) {
 
 func TestWaterRanges(t *testing.T) {
 	bad := []struct{ T, p float64 }{
-		{260, StandardAtmosphere},   // ice
-		{700, 30e6},                 // beyond region 1
-		{380, StandardAtmosphere},   // 107 °C at 1 atm: steam
-		{300, 200e6},                // above 100 MPa
+		{260, StandardAtmosphere}, // ice
+		{700, 30e6},               // beyond region 1
+		{380, StandardAtmosphere}, // 107 °C at 1 atm: steam
+		{300, 200e6},              // above 100 MPa
 		{math.NaN(), StandardAtmosphere},
 	}
 	for _, b := range bad {
