@@ -1,0 +1,387 @@
+package sparse
+
+import (
+	"fmt"
+	"math"
+	"slices"
+)
+
+// PivotTolerance: a pivot d_j with |d_j| ≤ PivotTolerance·max_i |A_ij| (over the full symmetric column j of the
+// original matrix) is reported as a *SingularError. It catches rows with no coupling and exact cancellation while
+// leaving legitimate FEM pivots (condition numbers up to ~1e13) alone.
+const PivotTolerance = 1e-14
+
+// Factor is a numeric LDLᵀ factorisation P A Pᵀ = L D Lᵀ (transpose, no conjugation; L unit lower triangular,
+// D diagonal) of a complex symmetric matrix, computed without pivoting. It keeps a copy of A's values for
+// iterative refinement. A Factor is read-only after creation and Solve may be called concurrently.
+type Factor struct {
+	s     *Symbolic
+	lx    []complex128 // supernodal blocks; D on the diagonal of each block
+	aval  []complex128 // copy of A.Val
+	a     Matrix       // A with the copied values (pattern shared with the Symbolic)
+	normA float64      // ‖A‖∞
+}
+
+// panelWidth is the number of pivot columns factored before a blocked rank update; rowTile is the row tile of
+// the rank update (panelWidth×rowTile complex values stay cache-resident while all target columns stream by).
+const (
+	panelWidth = 32
+	rowTile    = 256
+)
+
+// Factor computes the numeric factorisation of a, which must have exactly the pattern that was analysed.
+func (s *Symbolic) Factor(a *Matrix) (*Factor, error) {
+	if a == nil || a.N != s.n || len(a.ColPtr) != s.n+1 || !slices.Equal(a.ColPtr, s.colPtr) ||
+		len(a.RowIdx) < len(s.rowIdx) || !slices.Equal(a.RowIdx[:len(s.rowIdx)], s.rowIdx) || len(a.Val) < len(s.rowIdx) {
+		return nil, fmt.Errorf("sparse: Factor: matrix pattern differs from the analysed one")
+	}
+	n := s.n
+	nz := len(s.rowIdx)
+	scale := make([]float64, n)
+	for j := 0; j < n; j++ {
+		for p := a.ColPtr[j]; p < a.ColPtr[j+1]; p++ {
+			v := a.Val[p]
+			i := a.RowIdx[p]
+			if !finite(v) {
+				return nil, &NonFiniteError{Row: int(i), Column: j, Value: v}
+			}
+			av := cabs(v)
+			scale[i] = max(scale[i], av)
+			scale[j] = max(scale[j], av)
+		}
+	}
+	f := &Factor{s: s, aval: slices.Clone(a.Val[:nz])}
+	f.a = Matrix{N: n, ColPtr: s.colPtr, RowIdx: s.rowIdx, Val: f.aval}
+	f.normA = f.a.normInf()
+	lx := make([]complex128, s.lOff[len(s.lOff)-1])
+	for q, d := range s.dest {
+		lx[d] += f.aval[q]
+	}
+	f.lx = lx
+
+	stack := make([]complex128, s.stats.StackPeak)
+	work := make([]complex128, s.maxWork)
+	pos := make([]int32, n)
+	type block struct{ sn, off int }
+	var blocks []block
+	top := 0
+	ns := len(s.first) - 1
+	for sn := 0; sn < ns; sn++ {
+		k := int(s.first[sn+1] - s.first[sn])
+		rows := s.rows[s.rowPtr[sn]:s.rowPtr[sn+1]]
+		m := len(rows)
+		m2 := m - k
+		L := lx[s.lOff[sn]:s.lOff[sn+1]]
+		cbSize := m2 * (m2 + 1) / 2
+		cb := stack[top : top+cbSize]
+		clear(cb)
+		for t, i := range rows {
+			pos[i] = int32(t)
+		}
+		// Extend-add the children's update matrices (the topmost blocks of the stack).
+		base := top
+		for len(blocks) > 0 && s.parent[blocks[len(blocks)-1].sn] == int32(sn) {
+			ch := blocks[len(blocks)-1]
+			blocks = blocks[:len(blocks)-1]
+			base = ch.off
+			crow := s.rows[s.rowPtr[ch.sn]:s.rowPtr[ch.sn+1]]
+			ck := int(s.first[ch.sn+1] - s.first[ch.sn])
+			extendAdd(stack[ch.off:], crow[ck:], pos, L, m, k, cb)
+		}
+		// Factor the pivot block and apply the rank updates.
+		if bad, piv := factorFront(L, m, k, cb, work); bad >= 0 {
+			col := int(s.first[sn]) + bad
+			return nil, &SingularError{Column: int(s.perm[col]), Pivot: piv}
+		}
+		// Check pivots against the column scale.
+		for j := 0; j < k; j++ {
+			d := L[j*m+j]
+			col := int(s.first[sn]) + j
+			if !finite(d) || cabs(d) <= PivotTolerance*scale[s.perm[col]] {
+				return nil, &SingularError{Column: int(s.perm[col]), Pivot: d}
+			}
+		}
+		// Move this update matrix down over the consumed children.
+		if base != top {
+			copy(stack[base:base+cbSize], cb)
+		}
+		top = base
+		if s.parent[sn] >= 0 && cbSize > 0 {
+			blocks = append(blocks, block{sn, top})
+			top += cbSize
+		} else if s.parent[sn] >= 0 {
+			blocks = append(blocks, block{sn, top})
+		}
+	}
+	return f, nil
+}
+
+// extendAdd adds a child's packed lower update matrix (rows crow, all present in the parent pattern) into the
+// parent front: pivot columns go to the panel L (m×k, column-major), the rest to the packed update matrix cb.
+func extendAdd(child []complex128, crow []int32, pos []int32, L []complex128, m, k int, cb []complex128) {
+	mc := len(crow)
+	m2 := m - k
+	o := 0
+	for a := 0; a < mc; a++ {
+		la := int(pos[crow[a]])
+		src := child[o : o+mc-a]
+		o += mc - a
+		if la < k {
+			dst := L[la*m:]
+			for b, v := range src {
+				dst[pos[crow[a+b]]] += v
+			}
+		} else {
+			t := la - k
+			base := t*m2 - t*(t-1)/2 - la // cb[base+i] is front entry (i, la)
+			for b, v := range src {
+				cb[base+int(pos[crow[a+b]])] += v
+			}
+		}
+	}
+}
+
+// factorFront factors the k pivot columns of a front of order m held as the m×k column-major panel L (rows ≥
+// column meaningful) and subtracts their contribution from the packed lower update matrix cb of order m−k. On
+// return L holds D on its diagonal and the unit-lower L below. It returns the local column of a zero or
+// non-finite pivot, or −1.
+func factorFront(L []complex128, m, k int, cb, work []complex128) (int, complex128) {
+	for jb := 0; jb < k; jb += panelWidth {
+		je := min(jb+panelWidth, k)
+		for j := jb; j < je; j++ {
+			col := L[j*m+j : j*m+m]
+			for p := jb; p < j; p++ {
+				w := L[p*m+p] * L[p*m+j]
+				axpyNeg(col, L[p*m+j:p*m+m], w)
+			}
+			d := col[0]
+			if d == 0 || !finite(d) {
+				return j, d
+			}
+			inv := 1 / d
+			tail := col[1:]
+			for i := range tail {
+				tail[i] *= inv
+			}
+		}
+		if je == m {
+			break
+		}
+		// W[t*bw + p−jb] = d_p L(je+t, p)
+		bw := je - jb
+		nt := m - je
+		W := work[:nt*bw]
+		for p := jb; p < je; p++ {
+			d := L[p*m+p]
+			lc := L[p*m+je : p*m+m]
+			for t, v := range lc {
+				W[t*bw+p-jb] = d * v
+			}
+		}
+		rankUpdate(L, m, k, jb, je, W, cb)
+	}
+	return -1, 0
+}
+
+// rankUpdate subtracts L(:, jb:je) D(jb:je) L(c, jb:je)ᵀ from every target column c ≥ je of the front (panel
+// columns c < k in L, the rest in the packed cb), rows ≥ c only.
+func rankUpdate(L []complex128, m, k, jb, je int, W []complex128, cb []complex128) {
+	bw := je - jb
+	m2 := m - k
+	for ib := je; ib < m; ib += rowTile {
+		ie := min(ib+rowTile, m)
+		for c := je; c < ie; c++ {
+			i0 := max(ib, c)
+			var d []complex128
+			if c < k {
+				d = L[c*m+i0 : c*m+ie]
+			} else {
+				t := c - k
+				o := t*m2 - t*(t-1)/2 - c
+				d = cb[o+i0 : o+ie]
+			}
+			w := W[(c-je)*bw : (c-je)*bw+bw]
+			gemvNeg(d, L, m, jb*m+i0, w)
+		}
+	}
+}
+
+// gemvNeg sets d −= Σ_p w[p]·L[off+p·m : off+p·m+len(d)].
+func gemvNeg(d []complex128, L []complex128, m, off int, w []complex128) {
+	n := len(d)
+	p := 0
+	for ; p+4 <= len(w); p += 4 {
+		o := off + p*m
+		a0 := L[o : o+n]
+		a1 := L[o+m : o+m+n]
+		a2 := L[o+2*m : o+2*m+n]
+		a3 := L[o+3*m : o+3*m+n]
+		w0, w1, w2, w3 := w[p], w[p+1], w[p+2], w[p+3]
+		for i := range d {
+			d[i] -= w0*a0[i] + w1*a1[i] + w2*a2[i] + w3*a3[i]
+		}
+	}
+	for ; p < len(w); p++ {
+		o := off + p*m
+		axpyNeg(d, L[o:o+n], w[p])
+	}
+}
+
+// axpyNeg sets d −= w·a over len(d) entries.
+func axpyNeg(d, a []complex128, w complex128) {
+	a = a[:len(d)]
+	for i := range d {
+		d[i] -= w * a[i]
+	}
+}
+
+// Solve-related constants.
+const (
+	// MaxResidual is the acceptance threshold of Solve: the scaled residual ‖b − A x‖∞ / (‖A‖∞‖x‖∞ + ‖b‖∞)
+	// must end at or below it, else Solve returns an *AccuracyError (with the best x it found).
+	MaxResidual = 1e-10
+	// maxRefine bounds the iterative refinement steps; refinement stops early at targetResidual or when a step
+	// fails to halve the residual.
+	maxRefine      = 4
+	targetResidual = 1e-15
+)
+
+// SolveInfo reports a solve's accuracy.
+type SolveInfo struct {
+	Residual    float64 // ‖A x − b‖∞ / (‖A‖∞ ‖x‖∞ + ‖b‖∞), dimensionless
+	Refinements int     // iterative-refinement steps taken
+}
+
+// Solve sets x = A⁻¹ b, refining iteratively against the original A. x and b have length N and may be the same
+// slice. It returns an *AccuracyError when the scaled residual stays above MaxResidual, and a *NonFiniteError
+// for a NaN or Inf in b.
+func (f *Factor) Solve(x, b []complex128) (SolveInfo, error) {
+	n := f.s.n
+	if len(x) != n || len(b) != n {
+		panic(fmt.Sprintf("sparse: Solve lengths %d, %d for N=%d", len(x), len(b), n))
+	}
+	var normB float64
+	for i, v := range b {
+		if !finite(v) {
+			return SolveInfo{}, &NonFiniteError{Row: i, Column: -1, Value: v}
+		}
+		normB = max(normB, cabs(v))
+	}
+	rhs := slices.Clone(b)
+	y := make([]complex128, n)
+	r := make([]complex128, n)
+	f.solveOnce(x, rhs)
+	info := SolveInfo{Residual: f.residual(r, x, rhs, normB)}
+	best := slices.Clone(x)
+	for info.Refinements < maxRefine && info.Residual > targetResidual {
+		f.solveOnce(y, r) // correction y = A⁻¹ r
+		for i := range x {
+			x[i] += y[i]
+		}
+		info.Refinements++
+		res := f.residual(r, x, rhs, normB)
+		if !(res < info.Residual) {
+			copy(x, best)
+			f.residual(r, x, rhs, normB)
+			break
+		}
+		improved := res < 0.5*info.Residual
+		info.Residual = res
+		copy(best, x)
+		if !improved {
+			break
+		}
+	}
+	if !(info.Residual <= MaxResidual) {
+		return info, &AccuracyError{Residual: info.Residual, Threshold: MaxResidual}
+	}
+	return info, nil
+}
+
+// residual sets r = b − A x and returns the scaled residual.
+func (f *Factor) residual(r, x, b []complex128, normB float64) float64 {
+	f.a.MulVec(r, x)
+	var nr, nx float64
+	for i := range r {
+		r[i] = b[i] - r[i]
+		nr = max(nr, cabs(r[i]))
+		nx = max(nx, cabs(x[i]))
+	}
+	den := f.normA*nx + normB
+	if den == 0 {
+		return 0
+	}
+	res := nr / den
+	if math.IsNaN(res) {
+		return math.Inf(1)
+	}
+	return res
+}
+
+// solveOnce sets x = A⁻¹ b by permutation, forward substitution, diagonal scaling and back substitution.
+func (f *Factor) solveOnce(x, b []complex128) {
+	s := f.s
+	y := make([]complex128, s.n)
+	for k, old := range s.perm {
+		y[k] = b[old]
+	}
+	ns := len(s.first) - 1
+	for sn := 0; sn < ns; sn++ {
+		fc := int(s.first[sn])
+		k := int(s.first[sn+1]) - fc
+		rows := s.rows[s.rowPtr[sn]:s.rowPtr[sn+1]]
+		m := len(rows)
+		L := s.block(f.lx, sn)
+		for j := 0; j < k; j++ {
+			yj := y[fc+j]
+			col := L[j*m : j*m+m]
+			for i := j + 1; i < m; i++ {
+				y[rows[i]] -= col[i] * yj
+			}
+		}
+	}
+	for sn := 0; sn < ns; sn++ {
+		fc := int(s.first[sn])
+		k := int(s.first[sn+1]) - fc
+		m := s.rowPtr[sn+1] - s.rowPtr[sn]
+		L := s.block(f.lx, sn)
+		for j := 0; j < k; j++ {
+			y[fc+j] /= L[j*m+j]
+		}
+	}
+	for sn := ns - 1; sn >= 0; sn-- {
+		fc := int(s.first[sn])
+		k := int(s.first[sn+1]) - fc
+		rows := s.rows[s.rowPtr[sn]:s.rowPtr[sn+1]]
+		m := len(rows)
+		L := s.block(f.lx, sn)
+		for j := k - 1; j >= 0; j-- {
+			col := L[j*m : j*m+m]
+			var sum complex128
+			for i := j + 1; i < m; i++ {
+				sum += col[i] * y[rows[i]]
+			}
+			y[fc+j] -= sum
+		}
+	}
+	for k, old := range s.perm {
+		x[old] = y[k]
+	}
+}
+
+func (s *Symbolic) block(lx []complex128, sn int) []complex128 { return lx[s.lOff[sn]:s.lOff[sn+1]] }
+
+// Solve is a one-shot Analyze, Factor and Factor.Solve of A x = b.
+func Solve(a *Matrix, b []complex128, opt Options) ([]complex128, SolveInfo, error) {
+	s, err := Analyze(a, opt)
+	if err != nil {
+		return nil, SolveInfo{}, fmt.Errorf("sparse: analyse: %w", err)
+	}
+	f, err := s.Factor(a)
+	if err != nil {
+		return nil, SolveInfo{}, fmt.Errorf("sparse: factor: %w", err)
+	}
+	x := make([]complex128, a.N)
+	info, err := f.Solve(x, b)
+	return x, info, err
+}

@@ -1,0 +1,388 @@
+package sparse
+
+import (
+	"fmt"
+	"math"
+)
+
+// Ordering selects the fill-reducing ordering applied before factorisation.
+type Ordering int
+
+const (
+	// OrderAuto uses nested dissection on the node coordinates when Options.Coords is given and graph nested
+	// dissection otherwise.
+	OrderAuto Ordering = iota
+	// OrderNestedDissection is nested dissection: recursive coordinate bisection with vertex separators taken
+	// from the graph when coordinates are given, breadth-first level-structure separators otherwise.
+	OrderNestedDissection
+	// OrderMinimumDegree is an exact-degree minimum degree ordering on the explicit elimination graph. It needs
+	// no coordinates; it is slower to compute than nested dissection on large 2D meshes.
+	OrderMinimumDegree
+	// OrderNatural keeps the given numbering.
+	OrderNatural
+)
+
+func (o Ordering) String() string {
+	switch o {
+	case OrderAuto:
+		return "auto"
+	case OrderNestedDissection:
+		return "nested-dissection"
+	case OrderMinimumDegree:
+		return "minimum-degree"
+	case OrderNatural:
+		return "natural"
+	}
+	return fmt.Sprintf("Ordering(%d)", int(o))
+}
+
+// graph is the adjacency structure of the full symmetric matrix without the diagonal (CSR).
+type graph struct {
+	xadj []int
+	adj  []int32
+}
+
+func (g *graph) n() int                { return len(g.xadj) - 1 }
+func (g *graph) nbrs(v int32) []int32 { return g.adj[g.xadj[v]:g.xadj[v+1]] }
+
+func newGraph(a *Matrix) *graph {
+	n := a.N
+	xadj := make([]int, n+1)
+	for j := 0; j < n; j++ {
+		for p := a.ColPtr[j]; p < a.ColPtr[j+1]; p++ {
+			if i := int(a.RowIdx[p]); i != j {
+				xadj[i+1]++
+				xadj[j+1]++
+			}
+		}
+	}
+	for i := 0; i < n; i++ {
+		xadj[i+1] += xadj[i]
+	}
+	adj := make([]int32, xadj[n])
+	next := make([]int, n)
+	copy(next, xadj[:n])
+	for j := 0; j < n; j++ {
+		for p := a.ColPtr[j]; p < a.ColPtr[j+1]; p++ {
+			if i := a.RowIdx[p]; int(i) != j {
+				adj[next[i]] = int32(j)
+				next[i]++
+				adj[next[j]] = i
+				next[j]++
+			}
+		}
+	}
+	return &graph{xadj: xadj, adj: adj}
+}
+
+// leafSize is the subgraph size below which nested dissection stops splitting.
+const leafSize = 48
+
+// order returns perm with perm[k] = the original index of the k-th pivot.
+func order(g *graph, opt Options) ([]int32, Ordering, error) {
+	n := g.n()
+	o := opt.Ordering
+	hasCoords := len(opt.Coords) == n && n > 0
+	if opt.Coords != nil && len(opt.Coords) != n {
+		return nil, o, fmt.Errorf("sparse: %d coordinates given for %d unknowns", len(opt.Coords), n)
+	}
+	if o == OrderAuto {
+		o = OrderNestedDissection
+	}
+	switch o {
+	case OrderNatural:
+		p := make([]int32, n)
+		for i := range p {
+			p[i] = int32(i)
+		}
+		return p, o, nil
+	case OrderMinimumDegree:
+		return minimumDegree(g, opt.Coords), o, nil
+	case OrderNestedDissection:
+		d := &dissector{g: g, mark: make([]int32, n), level: make([]int32, n), out: make([]int32, 0, n)}
+		var tail []int32
+		set := make([]int32, 0, n)
+		for v := 0; v < n; v++ {
+			if hasCoords && (math.IsNaN(opt.Coords[v][0]) || math.IsNaN(opt.Coords[v][1])) {
+				tail = append(tail, int32(v))
+			} else {
+				set = append(set, int32(v))
+			}
+		}
+		if hasCoords {
+			d.xy = opt.Coords
+			d.coordND(set)
+		} else {
+			d.graphND(set)
+		}
+		d.out = append(d.out, tail...)
+		return d.out, o, nil
+	}
+	return nil, o, fmt.Errorf("sparse: unknown ordering %d", int(o))
+}
+
+// dissector carries the work arrays of one nested-dissection ordering.
+type dissector struct {
+	g     *graph
+	xy    [][2]float64
+	mark  []int32 // per-node stamp or side label; zero outside the set being split
+	level []int32
+	stamp int32
+	out   []int32
+}
+
+// coordND orders set by recursive coordinate bisection: split at the median along the longer extent, take as
+// separator the smaller of the two sets of boundary vertices (those with a neighbour across the cut), order the
+// two remaining halves recursively and the separator last.
+func (d *dissector) coordND(set []int32) {
+	if len(set) <= leafSize {
+		d.out = append(d.out, set...)
+		return
+	}
+	xy := d.xy
+	x0, x1, y0, y1 := math.Inf(1), math.Inf(-1), math.Inf(1), math.Inf(-1)
+	for _, v := range set {
+		p := xy[v]
+		x0, x1 = min(x0, p[0]), max(x1, p[0])
+		y0, y1 = min(y0, p[1]), max(y1, p[1])
+	}
+	axis := 0
+	if y1-y0 > x1-x0 {
+		axis = 1
+	}
+	mid := len(set) / 2
+	selectByCoord(set, mid, xy, axis)
+	left, right := set[:mid], set[mid:]
+	const sideL, sideR = 1, 2
+	for _, v := range left {
+		d.mark[v] = sideL
+	}
+	for _, v := range right {
+		d.mark[v] = sideR
+	}
+	nl, nr := 0, 0
+	for _, v := range left {
+		if d.touches(v, sideR) {
+			nl++
+		}
+	}
+	for _, v := range right {
+		if d.touches(v, sideL) {
+			nr++
+		}
+	}
+	// Partition into [part A | part B | separator] in a fresh slice so the recursion can reuse set's storage.
+	sepSide, cross := int32(sideL), int32(sideR)
+	if nr < nl {
+		sepSide, cross = sideR, sideL
+	}
+	tmp := make([]int32, 0, len(set))
+	var sep []int32
+	for _, v := range set {
+		if d.mark[v] == sepSide && d.touches(v, cross) {
+			sep = append(sep, v)
+		}
+	}
+	for _, v := range left {
+		if !(sepSide == sideL && d.touches(v, cross)) {
+			tmp = append(tmp, v)
+		}
+	}
+	na := len(tmp)
+	for _, v := range right {
+		if !(sepSide == sideR && d.touches(v, cross)) {
+			tmp = append(tmp, v)
+		}
+	}
+	for _, v := range set {
+		d.mark[v] = 0
+	}
+	if len(sep) == 0 && (na == 0 || na == len(tmp)) {
+		d.out = append(d.out, set...)
+		return
+	}
+	nb := len(tmp) - na
+	copy(set, tmp)
+	d.coordND(set[:na])
+	d.coordND(set[na : na+nb])
+	d.out = append(d.out, sep...)
+}
+
+func (d *dissector) touches(v int32, side int32) bool {
+	for _, u := range d.g.nbrs(v) {
+		if d.mark[u] == side {
+			return true
+		}
+	}
+	return false
+}
+
+// selectByCoord reorders s so that s[k] is the element of rank k in (coordinate axis, other coordinate, index)
+// order, smaller ones before it and larger after (Hoare's selection).
+func selectByCoord(s []int32, k int, xy [][2]float64, axis int) {
+	less := func(a, b int32) bool {
+		pa, pb := xy[a], xy[b]
+		if pa[axis] != pb[axis] {
+			return pa[axis] < pb[axis]
+		}
+		if pa[1-axis] != pb[1-axis] {
+			return pa[1-axis] < pb[1-axis]
+		}
+		return a < b
+	}
+	lo, hi := 0, len(s)-1
+	for hi > lo {
+		m := lo + (hi-lo)/2
+		// median of three to s[m]
+		if less(s[m], s[lo]) {
+			s[m], s[lo] = s[lo], s[m]
+		}
+		if less(s[hi], s[lo]) {
+			s[hi], s[lo] = s[lo], s[hi]
+		}
+		if less(s[hi], s[m]) {
+			s[hi], s[m] = s[m], s[hi]
+		}
+		pivot := s[m]
+		i, j := lo, hi
+		for i <= j {
+			for less(s[i], pivot) {
+				i++
+			}
+			for less(pivot, s[j]) {
+				j--
+			}
+			if i <= j {
+				s[i], s[j] = s[j], s[i]
+				i++
+				j--
+			}
+		}
+		if k <= j {
+			hi = j
+		} else if k >= i {
+			lo = i
+		} else {
+			return
+		}
+	}
+}
+
+// graphND orders set by nested dissection with breadth-first level structures rooted at a pseudo-peripheral
+// vertex: the level where the cumulative count passes half is the separator, thinned by moving vertices with no
+// neighbour in the far part to the near part. Disconnected pieces are ordered one after the other.
+func (d *dissector) graphND(set []int32) {
+	if len(set) <= leafSize {
+		d.out = append(d.out, set...)
+		return
+	}
+	d.stamp++
+	in := d.stamp
+	for _, v := range set {
+		d.mark[v] = in
+	}
+	// Pseudo-peripheral start: repeat BFS from a minimum-degree vertex of the last level while the depth grows.
+	start := set[0]
+	order, nlev := d.bfs(start, in)
+	for it := 0; it < 4; it++ {
+		last := order[len(order)-1]
+		lastLev := d.level[last]
+		best := last
+		for i := len(order) - 1; i >= 0 && d.level[order[i]] == lastLev; i-- {
+			if len(d.g.nbrs(order[i])) < len(d.g.nbrs(best)) {
+				best = order[i]
+			}
+		}
+		o2, n2 := d.bfs(best, in)
+		if n2 <= nlev {
+			break
+		}
+		order, nlev = o2, n2
+	}
+	if len(order) < len(set) {
+		// Disconnected: order the reached component, then the rest.
+		for _, v := range order {
+			d.mark[v] = -in
+		}
+		rest := make([]int32, 0, len(set)-len(order))
+		for _, v := range set {
+			if d.mark[v] == in {
+				rest = append(rest, v)
+			}
+		}
+		comp := append([]int32(nil), order...)
+		for _, v := range set {
+			d.mark[v] = 0
+		}
+		d.graphND(comp)
+		d.graphND(rest)
+		return
+	}
+	// order is sorted by level; find the separator level.
+	half := len(order) / 2
+	sepLev := d.level[order[half]]
+	if sepLev == 0 {
+		sepLev = 1
+	}
+	var a, b, sep []int32
+	for _, v := range order {
+		switch l := d.level[v]; {
+		case l < sepLev:
+			a = append(a, v)
+		case l > sepLev:
+			b = append(b, v)
+		default:
+			// keep in the separator only if it touches the far part
+			far := false
+			for _, u := range d.g.nbrs(v) {
+				if d.mark[u] == in && d.level[u] > sepLev {
+					far = true
+					break
+				}
+			}
+			if far {
+				sep = append(sep, v)
+			} else {
+				a = append(a, v)
+			}
+		}
+	}
+	for _, v := range set {
+		d.mark[v] = 0
+		d.level[v] = 0
+	}
+	if len(b) == 0 {
+		// No useful split (e.g. a clique-like piece): stop here.
+		d.out = append(d.out, set...)
+		return
+	}
+	d.graphND(a)
+	d.graphND(b)
+	d.out = append(d.out, sep...)
+}
+
+// bfs runs a breadth-first search from s within the vertices stamped in, setting level for the reached ones and
+// returning the visit order (sorted by level) and the number of levels. Marks are left as they were.
+func (d *dissector) bfs(s int32, in int32) ([]int32, int32) {
+	order := make([]int32, 0, 64)
+	order = append(order, s)
+	d.level[s] = 0
+	d.mark[s] = -in // visited
+	var nlev int32 = 1
+	for h := 0; h < len(order); h++ {
+		v := order[h]
+		lv := d.level[v]
+		for _, u := range d.g.nbrs(v) {
+			if d.mark[u] == in {
+				d.mark[u] = -in
+				d.level[u] = lv + 1
+				nlev = max(nlev, lv+2)
+				order = append(order, u)
+			}
+		}
+	}
+	for _, v := range order {
+		d.mark[v] = in
+	}
+	return order, nlev
+}
