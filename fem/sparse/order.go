@@ -42,7 +42,7 @@ type graph struct {
 	adj  []int32
 }
 
-func (g *graph) n() int                { return len(g.xadj) - 1 }
+func (g *graph) n() int               { return len(g.xadj) - 1 }
 func (g *graph) nbrs(v int32) []int32 { return g.adj[g.xadj[v]:g.xadj[v+1]] }
 
 func newGraph(a *Matrix) *graph {

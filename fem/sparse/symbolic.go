@@ -52,7 +52,13 @@ type Symbolic struct {
 func (s *Symbolic) Stats() SymbolicStats { return s.stats }
 
 // Perm returns a copy of the fill-reducing permutation: Perm()[k] is the original index of the k-th pivot.
-func (s *Symbolic) Perm() []int { p := make([]int, s.n); for k, v := range s.perm { p[k] = int(v) }; return p }
+func (s *Symbolic) Perm() []int {
+	p := make([]int, s.n)
+	for k, v := range s.perm {
+		p[k] = int(v)
+	}
+	return p
+}
 
 // Amalgamation limits (column counts) and the tolerated fraction of explicit zeros at each: a merge is taken
 // when the merged supernode has at most relaxCols[i] columns and at most relaxZero[i] of its entries are zeros.
