@@ -54,4 +54,8 @@ type Mesh struct {
 	Mid [][3]int32
 	// Edges are the mesh edges that lie on input segments, with the segments' tags.
 	Edges []Edge
+
+	// cache holds the point-location index built on first use by Locate (see Locate); nil for a Mesh built
+	// by hand, in which case Locate builds a fresh index on every call.
+	cache *meshCache
 }
