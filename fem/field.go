@@ -109,9 +109,12 @@ func (s *Solution) RegionPower(tag int32) float64 {
 	return p
 }
 
-// MagneticEnergy is the time-averaged magnetic energy in the whole domain, J: ∫ ν|B|²/2 2πr dr dz.
+// MagneticEnergy is the time-averaged magnetic energy, J: ∫ ν|B|²/2 2πr dr dz over the mesh, plus, with a
+// Robin outer boundary, the energy of the exterior dipole field it stands for, ½∮ (ν0/R)|A|² dS (for a dipole
+// A = C sinθ/ρ², ∫_{ρ>R} ν|B|² dV = ∮ (ν/R)|A|² dS = 8πν|C|²/(3R³)). With an applied field the exterior term
+// mixes applied and reaction parts and is left out.
 func (s *Solution) MagneticEnergy() float64 {
-	var e float64
+	e := s.exteriorEnergy()
 	s.EachPoint(func(q QuadPoint) {
 		mur := 1.0
 		if q.Region >= 0 && s.Regions[q.Region].MuR > 0 {
@@ -119,6 +122,33 @@ func (s *Solution) MagneticEnergy() float64 {
 		}
 		e += (sq(cmplx.Abs(q.Br)) + sq(cmplx.Abs(q.Bz))) / (2 * Mu0 * mur) * q.Weight
 	})
+	return e
+}
+
+func (s *Solution) exteriorEnergy() float64 {
+	if !s.Outer.Robin || s.AppliedBz != 0 {
+		return 0
+	}
+	m := s.Mesh
+	sh := make([]float64, 3)
+	var e float64
+	for _, ed := range m.Edges {
+		if ed.Tag != OuterTag {
+			continue
+		}
+		nd := []int32{ed.A, ed.B, ed.M}
+		pa, pb := m.Nodes[ed.A], m.Nodes[ed.B]
+		length := math.Hypot(pb.X-pa.X, pb.Y-pa.Y)
+		for g, t := range gauss5.X {
+			edgeShape(s.Order, t, sh)
+			a := s.A[nd[0]]*complex(sh[0], 0) + s.A[nd[1]]*complex(sh[1], 0)
+			if s.Order == 2 {
+				a += s.A[nd[2]] * complex(sh[2], 0)
+			}
+			r := pa.X + t*(pb.X-pa.X)
+			e += 0.5 / (Mu0 * s.Outer.Radius) * sq(cmplx.Abs(a)) * gauss5.W[g] * length * 2 * math.Pi * r
+		}
+	}
 	return e
 }
 

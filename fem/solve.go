@@ -98,6 +98,7 @@ type Solution struct {
 	// CoilI, CoilV and CoilZ are each coil's current (A), terminal voltage (V) and impedance V/I (Ω).
 	CoilI, CoilV, CoilZ []complex128
 	AppliedBz           complex128
+	Outer               OuterBoundary
 	Stats               Stats
 
 	elemRg []int
@@ -115,7 +116,7 @@ func (a *Assembler) solution(f float64, m *lowerCSC, b, x []complex128, st Stats
 		A: make([]complex128, len(p.Mesh.Nodes)), TurnU: make([]complex128, len(p.Regions)),
 		TurnI: make([]complex128, len(p.Regions)), CoilI: make([]complex128, len(p.Coils)),
 		CoilV: make([]complex128, len(p.Coils)), CoilZ: make([]complex128, len(p.Coils)),
-		AppliedBz: p.AppliedBz, Stats: st, elemRg: a.elemRg, areas: a.areas, axis: a.axis, rules: a.rules,
+		AppliedBz: p.AppliedBz, Outer: p.Outer, Stats: st, elemRg: a.elemRg, areas: a.areas, axis: a.axis, rules: a.rules,
 		sys: m, rhs: b,
 	}
 	for i, e := range a.eq {
