@@ -6,6 +6,8 @@ import (
 	"math"
 	"runtime"
 	"sync"
+
+	"eddyrz/fem/sparse"
 )
 
 // Override replaces the conductivity and relative permeability of the region with the given tag for one solve
@@ -40,7 +42,7 @@ type Assembler struct {
 	coilE []int        // per coil: equation index of its current (VoltageDrive), else -1
 	n     int
 
-	pat        *lowerCSC
+	pat        *sparse.Matrix // pattern (Val unused)
 	slot       []int
 	elemStart  []int // first slot-map index of each triangle's entries
 	edgeStart  int   // first slot-map index of the outer-edge entries
@@ -84,18 +86,22 @@ func NewAssembler(p *Problem) (*Assembler, error) {
 	if err := a.number(); err != nil {
 		return nil, err
 	}
-	pb := &patternBuilder{n: a.n}
+	tr := sparse.NewTriplet(a.n, len(m.Tris)*a.nloc*(a.nloc+1)/2)
 	a.elemStart = make([]int, len(m.Tris)+1)
-	ps := &patternSink{pb: pb}
+	ps := &patternSink{tr: tr}
 	for t := range m.Tris {
-		a.elemStart[t] = len(pb.rows)
+		a.elemStart[t] = tr.Len()
 		a.triangle(t, ps, nil)
 	}
-	a.elemStart[len(m.Tris)] = len(pb.rows)
-	a.edgeStart = len(pb.rows)
+	a.elemStart[len(m.Tris)] = tr.Len()
+	a.edgeStart = tr.Len()
 	a.edges(ps)
 	a.globals(ps)
-	a.pat, a.slot = pb.compile()
+	// Every unknown gets a diagonal entry, so the pattern is structurally complete.
+	for i := range a.n {
+		tr.Add(i, i, 0)
+	}
+	a.pat, a.slot = tr.Compile()
 	a.assemble()
 	return a, nil
 }
@@ -285,9 +291,9 @@ type sink interface {
 	rhs(i int, r0, r1, r2 complex128)
 }
 
-type patternSink struct{ pb *patternBuilder }
+type patternSink struct{ tr *sparse.Triplet }
 
-func (s *patternSink) mat(i, j int, _, _, _ float64)               { s.pb.add(i, j) }
+func (s *patternSink) mat(i, j int, _, _, _ float64)               { s.tr.Add(i, j, 0) }
 func (s *patternSink) rhs(int, complex128, complex128, complex128) {}
 
 // valueSink accumulates values into its own arrays, starting at slot-map position next.
@@ -543,7 +549,7 @@ func (a *Assembler) globals(s sink) {
 // assemble (re)computes all values into the fixed pattern, in parallel over chunks of triangles; each worker
 // accumulates into its own arrays, summed at the end.
 func (a *Assembler) assemble() {
-	nnz := len(a.pat.rowIdx)
+	nnz := a.pat.Nnz()
 	newSink := func(next int) *valueSink {
 		return &valueSink{slot: a.slot, next: next, kv: make([]float64, nnz), mv: make([]float64, nnz),
 			qv: make([]float64, nnz), r0: make([]complex128, a.n), r1: make([]complex128, a.n),
@@ -610,17 +616,35 @@ func (a *Assembler) SetMaterials(ov ...Override) error {
 }
 
 // Size returns the number of unknowns and of stored (lower-triangle) matrix entries.
-func (a *Assembler) Size() (unknowns, nonzeros int) { return a.n, len(a.pat.rowIdx) }
+func (a *Assembler) Size() (unknowns, nonzeros int) { return a.n, a.pat.Nnz() }
 
-// system fills m.val and b with the system at frequency f (Hz).
-func (a *Assembler) system(f float64, m *lowerCSC, b []complex128) {
+// System returns the matrix and right-hand side at frequency f (Hz), fresh arrays sharing the pattern.
+func (a *Assembler) System(f float64) (*sparse.Matrix, []complex128) {
+	m := &sparse.Matrix{N: a.pat.N, ColPtr: a.pat.ColPtr, RowIdx: a.pat.RowIdx, Val: make([]complex128, a.pat.Nnz())}
+	b := make([]complex128, a.n)
 	w := 2 * math.Pi * f
 	jw := complex(0, w)
 	ijw := 1 / jw
-	for p := range m.val {
-		m.val[p] = complex(a.kv[p], w*a.mv[p]-a.qv[p]/w)
+	for p := range m.Val {
+		m.Val[p] = complex(a.kv[p], w*a.mv[p]-a.qv[p]/w)
 	}
 	for i := range b {
 		b[i] = a.r0[i] + jw*a.r1[i] + ijw*a.r2[i]
 	}
+	return m, b
+}
+
+// Coords returns each unknown's (r, z) for the fill-reducing ordering, NaN for circuit unknowns.
+func (a *Assembler) Coords() [][2]float64 {
+	c := make([][2]float64, a.n)
+	for i := a.nNode; i < a.n; i++ {
+		c[i] = [2]float64{math.NaN(), math.NaN()}
+	}
+	for v, e := range a.eq {
+		if e >= 0 {
+			p := a.prob.Mesh.Nodes[v]
+			c[e] = [2]float64{p.X, p.Y}
+		}
+	}
+	return c
 }

@@ -3,10 +3,13 @@ package fem
 import (
 	"bufio"
 	"fmt"
+	"io"
 	"math"
 	"math/cmplx"
 	"os"
 	"path/filepath"
+
+	"eddyrz/fem/sparse"
 )
 
 // QuadPoint is the field at one quadrature point of the solution, for integrating derived quantities:
@@ -245,40 +248,29 @@ func (s *Solution) At(r, z float64) (v FieldValue, ok bool) {
 // turn loop voltages, then currents of voltage-driven coils; rows of circuit unknowns are scaled as in
 // physics.md (divided by jω or −jω).
 func (s *Solution) ExportSystem(dir string) error {
-	write := func(name string, body func(w *bufio.Writer)) error {
+	write := func(name string, body func(w io.Writer) error) error {
 		f, err := os.Create(filepath.Join(dir, name))
 		if err != nil {
 			return fmt.Errorf("export system: %w", err)
 		}
 		w := bufio.NewWriter(f)
-		body(w)
+		if err := body(w); err != nil {
+			f.Close()
+			return fmt.Errorf("export system %s: %w", name, err)
+		}
 		if err := w.Flush(); err != nil {
 			f.Close()
-			return fmt.Errorf("export system: %w", err)
+			return fmt.Errorf("export system %s: %w", name, err)
 		}
 		if err := f.Close(); err != nil {
-			return fmt.Errorf("export system: %w", err)
+			return fmt.Errorf("export system %s: %w", name, err)
 		}
 		return nil
 	}
-	m := s.sys
-	err := write("A.mtx", func(w *bufio.Writer) {
-		fmt.Fprintf(w, "%%%%MatrixMarket matrix coordinate complex symmetric\n%d %d %d\n", m.n, m.n, len(m.val))
-		for j := range m.n {
-			for p := m.colPtr[j]; p < m.colPtr[j+1]; p++ {
-				fmt.Fprintf(w, "%d %d %.17g %.17g\n", m.rowIdx[p]+1, j+1, real(m.val[p]), imag(m.val[p]))
-			}
-		}
-	})
-	if err != nil {
+	if err := write("A.mtx", func(w io.Writer) error { return sparse.WriteMatrixMarket(w, s.sys) }); err != nil {
 		return err
 	}
-	return write("b.mtx", func(w *bufio.Writer) {
-		fmt.Fprintf(w, "%%%%MatrixMarket matrix array complex general\n%d 1\n", len(s.rhs))
-		for _, v := range s.rhs {
-			fmt.Fprintf(w, "%.17g %.17g\n", real(v), imag(v))
-		}
-	})
+	return write("b.mtx", func(w io.Writer) error { return sparse.WriteVector(w, s.rhs) })
 }
 
 func sq(x float64) float64 { return x * x }

@@ -6,6 +6,7 @@ import (
 	"slices"
 	"time"
 
+	"eddyrz/fem/sparse"
 	"eddyrz/mesh"
 )
 
@@ -13,7 +14,7 @@ import (
 // pattern and the fill-reducing analysis. It is not safe for concurrent use: give each goroutine its own.
 type Solver struct {
 	asm     *Assembler
-	fac     *envelopeFactor
+	sym     *sparse.Symbolic
 	asmTime time.Duration
 }
 
@@ -60,26 +61,30 @@ func (s *Solver) SolveAt(f float64, ov ...Override) (*Solution, error) {
 			return nil, err
 		}
 	}
-	m := &lowerCSC{n: a.pat.n, colPtr: a.pat.colPtr, rowIdx: a.pat.rowIdx, val: make([]complex128, len(a.pat.rowIdx))}
-	b := make([]complex128, a.n)
-	a.system(f, m, b)
+	m, b := a.System(f)
 	st.Assemble += time.Since(t0)
 	t0 = time.Now()
-	if s.fac == nil {
-		s.fac = analyzeEnvelope(a.pat, a.nNode)
+	if s.sym == nil {
+		sym, err := sparse.Analyze(m, sparse.Options{Coords: a.Coords()})
+		if err != nil {
+			return nil, fmt.Errorf("analysing the %d-unknown system: %w", a.n, err)
+		}
+		s.sym = sym
 	}
-	if err := s.fac.factor(m); err != nil {
+	fac, err := s.sym.Factor(m)
+	if err != nil {
 		return nil, fmt.Errorf("factorising the %d-unknown system: %w", a.n, err)
 	}
 	st.Factor = time.Since(t0)
 	t0 = time.Now()
 	x := make([]complex128, a.n)
-	st.Residual = s.fac.solveRefined(m, x, b)
-	st.Solve = time.Since(t0)
-	st.Unknowns, st.NonZeros = a.n, len(m.val)
-	if math.IsNaN(st.Residual) || st.Residual > 1e-6 {
-		return nil, fmt.Errorf("linear solve inaccurate: scaled residual %.3g", st.Residual)
+	info, err := fac.Solve(x, b)
+	st.Residual = info.Residual
+	if err != nil {
+		return nil, fmt.Errorf("solving the %d-unknown system: %w", a.n, err)
 	}
+	st.Solve = time.Since(t0)
+	st.Unknowns, st.NonZeros = a.n, m.Nnz()
 	return a.solution(f, m, b, x, st), nil
 }
 
@@ -105,11 +110,11 @@ type Solution struct {
 	areas  []float64
 	axis   []bool
 	rules  Rules
-	sys    *lowerCSC
+	sys    *sparse.Matrix
 	rhs    []complex128
 }
 
-func (a *Assembler) solution(f float64, m *lowerCSC, b, x []complex128, st Stats) *Solution {
+func (a *Assembler) solution(f float64, m *sparse.Matrix, b, x []complex128, st Stats) *Solution {
 	p := &a.prob
 	s := &Solution{
 		Frequency: f, Order: a.order, Mesh: p.Mesh, Regions: slices.Clone(p.Regions), Coils: slices.Clone(p.Coils),
