@@ -428,7 +428,7 @@ func (j *Job) readMaterials(root *node) error {
 func (n *node) propTable(key string, d Dim, required bool) (material.Table, error) {
 	if !n.has(key) {
 		if required {
-			return material.Table{}, n.err(key, "%s", missing(key, dimExamples[d]))
+			return material.Table{}, n.missingErr(key, dimExamples[d])
 		}
 		return material.Table{}, nil
 	}
@@ -736,7 +736,7 @@ func (p *Part) readShape(n *node) error {
 
 func (p *Part) readPolygon(n *node) error {
 	if !n.has("points") {
-		return n.err("points", "%s", missing("points", `[["0 mm", "0 mm"], ["20 mm", "0 mm"], ["20 mm", "30 mm"]]`))
+		return n.missingErr("points", `[["0 mm", "0 mm"], ["20 mm", "0 mm"], ["20 mm", "30 mm"]]`)
 	}
 	arr, ok := n.m["points"].([]any)
 	if !ok || len(arr) < 3 {

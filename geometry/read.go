@@ -145,11 +145,43 @@ func missing(key, example string) string {
 	return fmt.Sprintf("missing value (add for example %s = %s)", key, example)
 }
 
+// missingErr reports a required key that is absent; when the table holds an unknown key spelled nearly the
+// same, that misspelling is the error reported, at its own line.
+func (n *node) missingErr(key, example string) error {
+	for k := range n.m {
+		if !n.known[k] && editDistance(k, key) <= 2 {
+			return n.err(k, "unknown key (did you mean %s?)", key)
+		}
+	}
+	return n.err(key, "%s", missing(key, example))
+}
+
+// editDistance is the Levenshtein distance between a and b (bytes).
+func editDistance(a, b string) int {
+	prev := make([]int, len(b)+1)
+	cur := make([]int, len(b)+1)
+	for j := range prev {
+		prev[j] = j
+	}
+	for i := 1; i <= len(a); i++ {
+		cur[0] = i
+		for j := 1; j <= len(b); j++ {
+			c := prev[j-1]
+			if a[i-1] != b[j-1] {
+				c++
+			}
+			cur[j] = min(c, prev[j]+1, cur[j-1]+1)
+		}
+		prev, cur = cur, prev
+	}
+	return prev[len(b)]
+}
+
 // str reads a string; def is used when absent and not required.
 func (n *node) str(key string, required bool, def string) (string, error) {
 	if !n.has(key) {
 		if required {
-			return "", n.err(key, "%s", missing(key, `"..."`))
+			return "", n.missingErr(key, `"..."`)
 		}
 		return def, nil
 	}
@@ -186,7 +218,7 @@ func quoteList(s []string) string {
 func (n *node) quantity(key string, d Dim, required bool, def float64) (v float64, present bool, err error) {
 	if !n.has(key) {
 		if required {
-			return 0, false, n.err(key, "%s", missing(key, dimExamples[d]))
+			return 0, false, n.missingErr(key, dimExamples[d])
 		}
 		return def, false, nil
 	}
@@ -226,7 +258,7 @@ func (n *node) positive(key string, d Dim, required bool, def float64) (float64,
 func (n *node) integer(key string, required bool, def int) (int, bool, error) {
 	if !n.has(key) {
 		if required {
-			return 0, false, n.err(key, "%s", missing(key, "3"))
+			return 0, false, n.missingErr(key, "3")
 		}
 		return def, false, nil
 	}
