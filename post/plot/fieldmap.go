@@ -3,7 +3,9 @@ package plot
 import (
 	"errors"
 	"fmt"
+	"image"
 	"image/color"
+	stddraw "image/draw"
 	"math"
 
 	"eddyrz/mesh"
@@ -224,8 +226,22 @@ type triFill struct {
 	seam vg.Length
 }
 
-// Plot implements plot.Plotter.
+// rasterCanvas is what a bitmap back end (vgimg, used for PNG) offers besides vg.Canvas.
+type rasterCanvas interface {
+	Image() stddraw.Image
+	DPI() float64
+}
+
+// Plot implements plot.Plotter. On a bitmap canvas the triangles are scan-converted straight into the image
+// (no anti-aliasing, hence no seams, and fast for hundreds of thousands of triangles); on vector back ends
+// they are filled as paths.
 func (tf *triFill) Plot(c draw.Canvas, p *plot.Plot) {
+	if rc, ok := baseCanvas(c).(rasterCanvas); ok && tf.cm.alpha == 1 {
+		if img, ok := rc.Image().(*image.RGBA); ok && img.Bounds().Min == (image.Point{}) {
+			tf.raster(c, p, img, rc.DPI()/72)
+			return
+		}
+	}
 	var groups [lutSize]vg.Path
 	xmin, xmax, ymin, ymax := p.X.Min, p.X.Max, p.Y.Min, p.Y.Max
 	trX, trY := p.Transforms(&c)
@@ -268,6 +284,90 @@ func (tf *triFill) Plot(c draw.Canvas, p *plot.Plot) {
 		if seam > 0 {
 			c.SetLineStyle(draw.LineStyle{Color: col, Width: seam})
 			c.Stroke(groups[i])
+		}
+	}
+}
+
+// baseCanvas returns the back-end canvas under c: draw.Crop nests draw.Canvas values inside each other.
+func baseCanvas(c draw.Canvas) vg.Canvas {
+	v := c.Canvas
+	for {
+		switch dc := v.(type) {
+		case draw.Canvas:
+			v = dc.Canvas
+		case *draw.Canvas:
+			v = dc.Canvas
+		default:
+			return v
+		}
+	}
+}
+
+// raster fills the triangles into img, whose pixels are dots = points × scale with y pointing down (the
+// vgimg convention). A pixel takes a triangle's colour when its centre lies in the triangle (closed, with a
+// tiny tolerance), so triangles sharing an edge leave no unpainted pixels between them. Pixels outside the
+// data area c are left alone.
+func (tf *triFill) raster(c draw.Canvas, p *plot.Plot, img *image.RGBA, scale float64) {
+	xmin, xmax, ymin, ymax := p.X.Min, p.X.Max, p.Y.Min, p.Y.Max
+	trX, trY := p.Transforms(&c)
+	H := float64(img.Bounds().Dy())
+	// Pixel index ranges whose centres lie inside the data area.
+	ci0 := int(math.Ceil(float64(c.Min.X)*scale - 0.5))
+	ci1 := int(math.Floor(float64(c.Max.X)*scale-0.5)) + 1
+	cj0 := int(math.Ceil(H - float64(c.Max.Y)*scale - 0.5))
+	cj1 := int(math.Floor(H-float64(c.Min.Y)*scale-0.5)) + 1
+	ci0, cj0 = max(ci0, 0), max(cj0, 0)
+	ci1, cj1 = min(ci1, img.Bounds().Dx()), min(cj1, img.Bounds().Dy())
+	var rgba [lutSize][4]uint8
+	for i := range rgba {
+		col := tf.cm.color(i)
+		rgba[i] = [4]uint8{col.R, col.G, col.B, 255}
+	}
+	const eps = 1e-7
+	var px, py [3]float64
+	for t, b := range tf.bin {
+		xy := tf.xy[6*t : 6*t+6]
+		if max(xy[0], xy[2], xy[4]) < xmin || min(xy[0], xy[2], xy[4]) > xmax ||
+			max(xy[1], xy[3], xy[5]) < ymin || min(xy[1], xy[3], xy[5]) > ymax {
+			continue
+		}
+		for k := range 3 {
+			px[k] = float64(trX(xy[2*k])) * scale
+			py[k] = H - float64(trY(xy[2*k+1]))*scale
+		}
+		j0 := max(cj0, int(math.Ceil(min(py[0], py[1], py[2])-0.5-eps)))
+		j1 := min(cj1, int(math.Floor(max(py[0], py[1], py[2])-0.5+eps))+1)
+		col := rgba[b]
+		for j := j0; j < j1; j++ {
+			yc := float64(j) + 0.5
+			xl, xr := math.Inf(1), math.Inf(-1)
+			for k := range 3 {
+				xa, ya, xb, yb := px[k], py[k], px[(k+1)%3], py[(k+1)%3]
+				if ya > yb { // the same formula for an edge from either side: bit-identical crossings
+					xa, ya, xb, yb = xb, yb, xa, ya
+				}
+				if yc < ya-eps || yc > yb+eps {
+					continue
+				}
+				var x0, x1 float64
+				if yb-ya <= eps {
+					x0, x1 = min(xa, xb), max(xa, xb)
+				} else {
+					s := math.Min(1, math.Max(0, (yc-ya)/(yb-ya)))
+					x0 = xa + s*(xb-xa)
+					x1 = x0
+				}
+				xl, xr = math.Min(xl, x0), math.Max(xr, x1)
+			}
+			i0 := max(ci0, int(math.Ceil(xl-0.5-eps)))
+			i1 := min(ci1, int(math.Floor(xr-0.5+eps))+1)
+			if i0 >= i1 {
+				continue
+			}
+			row := img.Pix[j*img.Stride+4*i0 : j*img.Stride+4*i1]
+			for q := 0; q < len(row); q += 4 {
+				copy(row[q:q+4], col[:])
+			}
 		}
 	}
 }

@@ -100,38 +100,46 @@ func TestTriFillPixels(t *testing.T) {
 	// Zoom on r in [0, 500] mm: the right half of the mesh is culled or clipped.
 	p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = 0, 500, 0, 1000
 	const px = 200
-	c := vgimg.NewWith(vgimg.UseWH(px, px), vgimg.UseDPI(72), vgimg.UseBackgroundColor(color.White))
-	p.Draw(draw.New(c))
-	img := c.Image()
-	at := func(x, y float64) color.Color { // data coordinates in mm, image row 0 at the top
-		return img.At(int(x/500*px), int((1-y/1000)*px))
-	}
-	// A point well inside the lower triangle of cell (0, 0): vertices (0,0) (250,0) (250,250).
-	wantLower := fill.cm.color(index(250.0 * 2 / 3 / 1000))
-	checkPixel(t, at(200, 50), wantLower)
-	// Cell (1, 2), an odd cell split along the other diagonal; its upper triangle (250,750) (500,750) (250,500)...
-	tr := m.Tris[2*(2*4+1)+1]
-	cx := (m.Nodes[tr[0]].X + m.Nodes[tr[1]].X + m.Nodes[tr[2]].X) / 3
-	cy := (m.Nodes[tr[0]].Y + m.Nodes[tr[1]].Y + m.Nodes[tr[2]].Y) / 3
-	checkPixel(t, at(1e3*cx, 1e3*cy), fill.cm.color(index(cx)))
-	// Every pixel is covered: the zoom window lies inside the mesh, and no seams let white through.
-	b := img.Bounds()
-	for y := b.Min.Y + 1; y < b.Max.Y-1; y += 3 {
-		for x := b.Min.X + 1; x < b.Max.X-1; x += 3 {
-			if r, g, bb, _ := img.At(x, y).RGBA(); r > 0xf000 && g > 0xf000 && bb > 0xf000 {
-				t.Fatalf("white pixel at (%d, %d)", x, y)
+	for _, path := range []string{"raster", "vector"} {
+		c := vgimg.NewWith(vgimg.UseWH(px, px), vgimg.UseDPI(72), vgimg.UseBackgroundColor(color.White))
+		var vc vg.Canvas = c
+		if path == "vector" {
+			vc = hideImage{c} // no Image method: triFill falls back to filling paths
+		}
+		p.Draw(draw.NewCanvas(vc, px, px))
+		img := c.Image()
+		at := func(x, y float64) color.Color { // data coordinates in mm, image row 0 at the top
+			return img.At(int(x/500*px), int((1-y/1000)*px))
+		}
+		// A point well inside the lower triangle of cell (0, 0): vertices (0,0) (250,0) (250,250).
+		checkPixel(t, path, at(200, 50), fill.cm.color(index(250.0*2/3/1000)))
+		// The upper triangle of cell (1, 2), split along the other diagonal, at its centroid.
+		tr := m.Tris[2*(2*4+1)+1]
+		cx := (m.Nodes[tr[0]].X + m.Nodes[tr[1]].X + m.Nodes[tr[2]].X) / 3
+		cy := (m.Nodes[tr[0]].Y + m.Nodes[tr[1]].Y + m.Nodes[tr[2]].Y) / 3
+		checkPixel(t, path, at(1e3*cx, 1e3*cy), fill.cm.color(index(cx)))
+		// Every pixel is covered: the zoom window lies inside the mesh, and no seams let white through.
+		b := img.Bounds()
+		for y := b.Min.Y + 1; y < b.Max.Y-1; y += 3 {
+			for x := b.Min.X + 1; x < b.Max.X-1; x += 3 {
+				if r, g, bb, _ := img.At(x, y).RGBA(); r > 0xf000 && g > 0xf000 && bb > 0xf000 {
+					t.Fatalf("%s: white pixel at (%d, %d)", path, x, y)
+				}
 			}
 		}
 	}
 }
 
-func checkPixel(t *testing.T, got color.Color, want color.NRGBA) {
+// hideImage hides a bitmap canvas's Image method.
+type hideImage struct{ vg.Canvas }
+
+func checkPixel(t *testing.T, path string, got color.Color, want color.NRGBA) {
 	t.Helper()
 	r, g, b, _ := got.RGBA()
 	wr, wg, wb, _ := want.RGBA()
 	d := func(a, b uint32) int { return int(a>>8) - int(b>>8) }
 	if abs(d(r, wr)) > 2 || abs(d(g, wg)) > 2 || abs(d(b, wb)) > 2 {
-		t.Errorf("pixel %v, want %v", got, want)
+		t.Errorf("%s: pixel %v, want %v", path, got, want)
 	}
 }
 
