@@ -34,7 +34,7 @@ type builder struct {
 }
 
 // bedge is an edge u→v on the boundary of an insertion cavity, with the triangle beyond it and its segment.
-type bedge struct{ u, v, out, cons, owner int32 }
+type bedge struct{ u, v, out, cons, owner, tag int32 }
 
 var (
 	nxt = [3]int{1, 2, 0}
@@ -262,7 +262,7 @@ func (b *builder) insert(p Point, pv, t, k int32, checkEnc bool, seg int32) int3
 				if (u == splitA && v == splitB) || (u == splitB && v == splitA) {
 					continue
 				}
-				b.bnd = append(b.bnd, bedge{u, v, n, b.tc[3*c+j], c})
+				b.bnd = append(b.bnd, bedge{u, v, n, b.tc[3*c+j], c, b.tag[c]})
 			}
 		}
 		shrunk := false
@@ -293,7 +293,6 @@ func (b *builder) insert(p Point, pv, t, k int32, checkEnc bool, seg int32) int3
 			return -1
 		}
 	}
-	tg := b.tag[t]
 	if pv < 0 {
 		pv = b.addVertex(p, seg)
 	}
@@ -320,7 +319,7 @@ func (b *builder) insert(p Point, pv, t, k int32, checkEnc bool, seg int32) int3
 		b.setTri(nt, e.u, e.v, pv)
 		b.tn[3*nt] = e.out
 		b.tc[3*nt] = e.cons
-		b.tag[nt] = tg
+		b.tag[nt] = e.tag // the cavity never crosses a segment, so each new triangle stays in its region
 		b.linkBack(e.out, e.u, e.v, nt)
 		b.vlink[e.u] = nt
 		b.vstamp[e.u] = b.vcur

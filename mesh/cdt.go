@@ -142,7 +142,7 @@ func (b *builder) cutAndFill(a, c, t, k, s int32) (int32, error) {
 			if n >= 0 && b.mark[n] == st {
 				continue
 			}
-			b.bnd = append(b.bnd, bedge{b.tv[3*d+j], b.tv[3*d+int32(nxt[j])], n, b.tc[3*d+j], d})
+			b.bnd = append(b.bnd, bedge{b.tv[3*d+j], b.tv[3*d+int32(nxt[j])], n, b.tc[3*d+j], d, 0})
 		}
 	}
 	tg := b.tag[dead[0]]

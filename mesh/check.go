@@ -107,7 +107,8 @@ func (m *Mesh) Check() error {
 }
 
 // CheckSegments verifies that every segment of g whose end points are mesh vertices is the union of mesh
-// edges listed in Edges with the segment's Tag (where segments overlap, any of their tags is accepted).
+// edges listed in Edges with the segment's Tag (where segments overlap, any of their tags is accepted). Split
+// points count as on a segment within 1e-12 of its length (they are rounded interpolations).
 // Segments with an end point missing from the mesh (for instance inside a hole) are skipped.
 func (m *Mesh) CheckSegments(g PSLG) error {
 	at := make(map[Point]int32, m.NumVertices)
@@ -136,7 +137,8 @@ func (m *Mesh) CheckSegments(g PSLG) error {
 			pc := m.Nodes[cur]
 			for _, e := range adj[cur] {
 				q := m.Nodes[e.B]
-				if Orient2D(pa, pb, q) != 0 {
+				// Split points on a segment are rounded: accept a distance from its line of 1e-12 of its length.
+				if math.Abs(Orient2D(pa, pb, q)) > 1e-12*dist2(pa, pb) {
 					continue
 				}
 				// Progress along a→b, the furthest collinear step wins only if it does not overshoot.
@@ -161,7 +163,7 @@ func (m *Mesh) CheckSegments(g PSLG) error {
 // overlapTagged reports whether some segment of g with the given tag lies on the line through pa and pb.
 func overlapTagged(g PSLG, pa, pb Point, tag int32) bool {
 	for _, s := range g.Segments {
-		if s.Tag == tag && Orient2D(pa, pb, g.Points[s.A]) == 0 && Orient2D(pa, pb, g.Points[s.B]) == 0 {
+		if s.Tag == tag && math.Abs(Orient2D(pa, pb, g.Points[s.A])) <= 1e-12*dist2(pa, pb) && math.Abs(Orient2D(pa, pb, g.Points[s.B])) <= 1e-12*dist2(pa, pb) {
 			return true
 		}
 	}
