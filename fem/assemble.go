@@ -89,9 +89,10 @@ func NewAssembler(p *Problem) (*Assembler, error) {
 	tr := sparse.NewTriplet(a.n, len(m.Tris)*a.nloc*(a.nloc+1)/2)
 	a.elemStart = make([]int, len(m.Tris)+1)
 	ps := &patternSink{tr: tr}
+	sc := newScratch(a.nloc)
 	for t := range m.Tris {
 		a.elemStart[t] = tr.Len()
-		a.triangle(t, ps, nil)
+		a.triangle(t, ps, sc, true)
 	}
 	a.elemStart[len(m.Tris)] = tr.Len()
 	a.edgeStart = tr.Len()
@@ -367,12 +368,8 @@ func (a *Assembler) rule(t int) *QuadRule {
 	return &a.rules.Interior
 }
 
-// triangle emits the entries of triangle t. With sc nil it only emits positions (pattern pass).
-func (a *Assembler) triangle(t int, s sink, sc *elemScratch) {
-	pattern := sc == nil
-	if pattern {
-		sc = newScratch(a.nloc)
-	}
+// triangle emits the entries of triangle t. In the pattern pass it only emits positions (values are zero).
+func (a *Assembler) triangle(t int, s sink, sc *elemScratch, pattern bool) {
 	nl := a.nloc
 	a.nodes(t, sc.nd)
 	ri := a.elemRg[t]
@@ -382,11 +379,11 @@ func (a *Assembler) triangle(t int, s sink, sc *elemScratch) {
 	}
 	eddy := (reg.Kind == SolidTurn || reg.Kind == Part) && reg.Sigma > 0
 	var gTurn float64
+	clear(sc.ke)
+	clear(sc.me)
+	clear(sc.c)
+	clear(sc.b)
 	if !pattern {
-		clear(sc.ke)
-		clear(sc.me)
-		clear(sc.c)
-		clear(sc.b)
 		area, gl := triGeom(a.corners(t))
 		p := a.corners(t)
 		nu := a.nu(ri)
@@ -549,6 +546,10 @@ func (a *Assembler) globals(s sink) {
 // assemble (re)computes all values into the fixed pattern, in parallel over chunks of triangles; each worker
 // accumulates into its own arrays, summed at the end.
 func (a *Assembler) assemble() {
+	a.assembleWith(min(runtime.GOMAXPROCS(0), max(1, len(a.prob.Mesh.Tris)/2000)))
+}
+
+func (a *Assembler) assembleWith(workers int) {
 	nnz := a.pat.Nnz()
 	newSink := func(next int) *valueSink {
 		return &valueSink{slot: a.slot, next: next, kv: make([]float64, nnz), mv: make([]float64, nnz),
@@ -556,7 +557,6 @@ func (a *Assembler) assemble() {
 			r2: make([]complex128, a.n)}
 	}
 	nt := len(a.prob.Mesh.Tris)
-	workers := min(runtime.GOMAXPROCS(0), max(1, nt/2000))
 	sinks := make([]*valueSink, workers)
 	var wg sync.WaitGroup
 	for w := range workers {
@@ -565,7 +565,7 @@ func (a *Assembler) assemble() {
 		wg.Go(func() {
 			sc := newScratch(a.nloc)
 			for t := lo; t < hi; t++ {
-				a.triangle(t, sinks[w], sc)
+				a.triangle(t, sinks[w], sc, false)
 			}
 		})
 	}

@@ -6,6 +6,7 @@ import (
 	"math/cmplx"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 
@@ -393,5 +394,68 @@ func TestExportSystem(t *testing.T) {
 	bl := strings.Split(strings.TrimSpace(string(b)), "\n")
 	if bl[0] != "%%MatrixMarket matrix array complex general" || len(bl) != n+2 {
 		t.Errorf("b.mtx header %q, %d lines", bl[0], len(bl))
+	}
+}
+
+// A sweep through one Solver (pattern, symbolic analysis and element values re-used; overrides re-scattered)
+// must match fresh solves of the changed problems.
+func TestSolverSweepMatchesFreshSolves(t *testing.T) {
+	p := twoTurnCoil(CurrentDrive, 50)
+	s, err := NewSolver(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		f  float64
+		ov []Override
+	}{{1000, nil}, {30e3, nil}, {30e3, []Override{{Tag: 3, Sigma: 4e6, MuR: 1}}}, {200, nil}} {
+		got, err := s.SolveAt(c.f, c.ov...)
+		if err != nil {
+			t.Fatal(err)
+		}
+		q := twoTurnCoil(CurrentDrive, 50)
+		q.Frequency = c.f
+		if len(s.asm.prob.Regions) > 0 {
+			q.Regions[2].Sigma, q.Regions[2].MuR = s.asm.prob.Regions[2].Sigma, s.asm.prob.Regions[2].MuR
+		}
+		want, err := Solve(q)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if d := cmplx.Abs(got.CoilZ[0]-want.CoilZ[0]) / cmplx.Abs(want.CoilZ[0]); d > 1e-10 {
+			t.Errorf("f=%g %v: sweep Z %v, fresh %v", c.f, c.ov, got.CoilZ[0], want.CoilZ[0])
+		}
+		if e := got.BalanceError(); !(e < 1e-8) {
+			t.Errorf("f=%g: balance error %.3g", c.f, e)
+		}
+	}
+	if p.Regions[2].Sigma != 1e6 {
+		t.Errorf("overrides leaked into the caller's Problem")
+	}
+	if _, err := s.SolveAt(100, Override{Tag: 99, Sigma: 1}); err == nil {
+		t.Errorf("override of a missing tag accepted")
+	}
+}
+
+// Parallel assembly (each worker its own arrays, summed) equals serial assembly up to rounding.
+func TestParallelAssemblyMatchesSerial(t *testing.T) {
+	a, err := NewAssembler(twoTurnCoil(VoltageDrive, 3))
+	if err != nil {
+		t.Fatal(err)
+	}
+	a.assembleWith(1)
+	k1, m1, q1, r1 := slices.Clone(a.kv), slices.Clone(a.mv), slices.Clone(a.qv), slices.Clone(a.r0)
+	a.assembleWith(3)
+	for p := range k1 {
+		for _, c := range [][2]float64{{k1[p], a.kv[p]}, {m1[p], a.mv[p]}, {q1[p], a.qv[p]}} {
+			if math.Abs(c[0]-c[1]) > 1e-12*math.Max(1, math.Abs(c[0])) {
+				t.Fatalf("slot %d: serial %g, parallel %g", p, c[0], c[1])
+			}
+		}
+	}
+	for i := range r1 {
+		if cmplx.Abs(r1[i]-a.r0[i]) > 1e-12*math.Max(1, cmplx.Abs(r1[i])) {
+			t.Fatalf("rhs %d: serial %g, parallel %g", i, r1[i], a.r0[i])
+		}
 	}
 }
