@@ -3,8 +3,8 @@ package sparse
 import "math"
 
 // minimumDegree orders by exact minimum degree on the explicit elimination graph: repeatedly eliminate a vertex
-// of least current degree and make its neighbours a clique. Vertices whose coordinates are NaN (when coords are
-// given) are held back and numbered last. Its cost grows with the fill, so it suits small and medium systems.
+// of least current degree and make its neighbours a clique. Dense rows and vertices whose coordinates are NaN (when
+// coords are given) are held back and numbered last. Its cost grows with the fill, so it suits small and medium systems.
 func minimumDegree(g *graph, coords [][2]float64) []int32 {
 	n := g.n()
 	adj := make([][]int32, n)
@@ -12,10 +12,9 @@ func minimumDegree(g *graph, coords [][2]float64) []int32 {
 		adj[v] = append([]int32(nil), g.nbrs(int32(v))...)
 	}
 	held := make([]bool, n)
-	if len(coords) == n {
-		for v, p := range coords {
-			held[v] = math.IsNaN(p[0]) || math.IsNaN(p[1])
-		}
+	dense := denseThreshold(n)
+	for v := range held {
+		held[v] = len(adj[v]) > dense || (len(coords) == n && (math.IsNaN(coords[v][0]) || math.IsNaN(coords[v][1])))
 	}
 	// Degree buckets as doubly linked lists.
 	head := make([]int32, n+1)

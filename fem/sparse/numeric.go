@@ -54,12 +54,11 @@ func (s *Symbolic) Factor(a *Matrix) (*Factor, error) {
 	f.a = Matrix{N: n, ColPtr: s.colPtr, RowIdx: s.rowIdx, Val: f.aval}
 	f.normA = f.a.normInf()
 	lx := make([]complex128, s.lOff[len(s.lOff)-1])
-	for q, d := range s.dest {
-		lx[d] += f.aval[q]
-	}
+	adviseHuge(lx)
 	f.lx = lx
 
 	stack := make([]complex128, s.stats.StackPeak)
+	adviseHuge(stack)
 	work := make([]complex128, s.maxWork)
 	pos := make([]int32, n)
 	type block struct{ sn, off int }
@@ -72,6 +71,9 @@ func (s *Symbolic) Factor(a *Matrix) (*Factor, error) {
 		m := len(rows)
 		m2 := m - k
 		L := lx[s.lOff[sn]:s.lOff[sn+1]]
+		for t, q := range s.aq[s.aPtr[sn]:s.aPtr[sn+1]] {
+			L[s.aOff[s.aPtr[sn]+t]] += f.aval[q]
+		}
 		cbSize := m2 * (m2 + 1) / 2
 		cb := stack[top : top+cbSize]
 		clear(cb)

@@ -75,6 +75,10 @@ func newGraph(a *Matrix) *graph {
 	return &graph{xadj: xadj, adj: adj}
 }
 
+// denseThreshold is the degree above which a row counts as dense for ordering purposes (as in minimum degree
+// codes, a multiple of √n, never below a typical mesh degree).
+func denseThreshold(n int) int { return max(64, int(10*math.Sqrt(float64(n)))) }
+
 // leafSize is the subgraph size below which nested dissection stops splitting.
 const leafSize = 48
 
@@ -100,10 +104,14 @@ func order(g *graph, opt Options) ([]int32, Ordering, error) {
 		return minimumDegree(g, opt.Coords), o, nil
 	case OrderNestedDissection:
 		d := &dissector{g: g, mark: make([]int32, n), level: make([]int32, n), out: make([]int32, 0, n)}
+		// Unknowns without coordinates and dense rows (circuit unknowns coupling to a whole conductor) are left
+		// out of the dissection and numbered last; they would otherwise short-circuit the separators.
+		dense := denseThreshold(n)
 		var tail []int32
 		set := make([]int32, 0, n)
 		for v := 0; v < n; v++ {
-			if hasCoords && (math.IsNaN(opt.Coords[v][0]) || math.IsNaN(opt.Coords[v][1])) {
+			if (hasCoords && (math.IsNaN(opt.Coords[v][0]) || math.IsNaN(opt.Coords[v][1]))) ||
+				len(g.nbrs(int32(v))) > dense {
 				tail = append(tail, int32(v))
 			} else {
 				set = append(set, int32(v))

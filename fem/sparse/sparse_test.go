@@ -489,3 +489,25 @@ func TestSymbolicReuse(t *testing.T) {
 		t.Error("Factor accepted a different pattern")
 	}
 }
+
+// TestDenseRowsLast: graph-only orderings must hold dense border rows back to the end, or fill explodes: with
+// three border rows the factor may grow by at most the three dense columns (≤ 3N entries) over the bare grid.
+func TestDenseRowsLast(t *testing.T) {
+	a, _, _ := newAxi(82, 3).build()
+	a0, _, _ := newAxi(82, 0).build()
+	for _, o := range []Ordering{OrderNestedDissection, OrderMinimumDegree} {
+		s, err := Analyze(a, Options{Ordering: o})
+		if err != nil {
+			t.Fatal(err)
+		}
+		s0, err := Analyze(a0, Options{Ordering: o})
+		if err != nil {
+			t.Fatal(err)
+		}
+		grow := s.Stats().NnzL - s0.Stats().NnzL
+		t.Logf("%v: nnz(L) %d with border, %d without", o, s.Stats().NnzL, s0.Stats().NnzL)
+		if grow > 3*int64(a.N) {
+			t.Errorf("%v: border rows added %d entries to L (> 3N = %d)", o, grow, 3*a.N)
+		}
+	}
+}

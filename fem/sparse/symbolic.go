@@ -43,7 +43,9 @@ type Symbolic struct {
 	rows    []int32 // pivot indices, ascending within each supernode
 	lOff    []int   // len ns+1: supernode s's m×k column-major block starts at lOff[s] in the L values
 	parent  []int32 // supernodal elimination tree, −1 at roots
-	dest    []int   // dest[q] = position in the L values of A.Val[q]
+	aPtr    []int   // len ns+1: A entries landing in supernode s are aq[aPtr[s]:aPtr[s+1]]
+	aq      []int32 // positions in A.Val, grouped by supernode
+	aOff    []int32 // aOff[t] = offset of A.Val[aq[t]] within its supernode's block
 	stats   SymbolicStats
 	maxWork int // size of the rank-update coefficient buffer
 }
@@ -342,8 +344,10 @@ func Analyze(a *Matrix, opt Options) (*Symbolic, error) {
 		}
 	}
 
-	// Destination of every entry of A in the L storage.
-	dest := make([]int, a.ColPtr[n])
+	// Destination of every entry of A in the L storage, grouped by supernode.
+	aq := make([]int32, 0, a.ColPtr[n])
+	aOff := make([]int32, 0, a.ColPtr[n])
+	aPtr := make([]int, ns+1)
 	pos := make([]int32, n)
 	// bucket A's entries by the permuted column they land in
 	bptr := make([]int, n+1)
@@ -380,14 +384,16 @@ func Analyze(a *Matrix, opt Options) (*Symbolic, error) {
 		for j := first[s]; j < first[s+1]; j++ {
 			for _, q := range bq[bptr[j]:bptr[j+1]] {
 				i := max(iperm[colOf[q]], iperm[a.RowIdx[q]])
-				dest[q] = lOff[s] + int(j-first[s])*m + int(pos[i])
+				aq = append(aq, q)
+				aOff = append(aOff, int32(int(j-first[s])*m+int(pos[i])))
 			}
 		}
+		aPtr[s+1] = len(aq)
 	}
 
 	st := &Symbolic{
 		n: n, colPtr: slices.Clone(a.ColPtr), rowIdx: slices.Clone(a.RowIdx[:a.ColPtr[n]]),
-		perm: perm, iperm: iperm, first: first, rowPtr: rowPtr, rows: rows, lOff: lOff, parent: spar, dest: dest,
+		perm: perm, iperm: iperm, first: first, rowPtr: rowPtr, rows: rows, lOff: lOff, parent: spar, aPtr: aPtr, aq: aq, aOff: aOff,
 		maxWork: maxWork,
 	}
 	st.stats = SymbolicStats{
