@@ -137,8 +137,9 @@ func WriteUnstructured(w io.Writer, m *mesh.Mesh, point []Field, cell []Field) e
 		bw.str("\n")
 	}
 	bw.str(fmt.Sprintf("\nCELL_TYPES %d\n", nt))
+	typeLine := strconv.Itoa(typ) + "\n"
 	for range nt {
-		bw.str(strconv.Itoa(typ) + "\n")
+		bw.str(typeLine)
 	}
 
 	if len(point) > 0 {
@@ -153,7 +154,8 @@ func WriteUnstructured(w io.Writer, m *mesh.Mesh, point []Field, cell []Field) e
 		if len(m.Tags) > 0 {
 			tag = int(m.Tags[i])
 		}
-		bw.str(strconv.Itoa(tag) + "\n")
+		bw.ints(tag)
+		bw.str("\n")
 	}
 	for _, f := range cell {
 		bw.field(f)
