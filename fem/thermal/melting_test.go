@@ -2,6 +2,7 @@ package thermal
 
 import (
 	"math"
+	"math/rand/v2"
 	"testing"
 
 	"eddyrz/mesh"
@@ -238,5 +239,115 @@ func TestBadInput(t *testing.T) {
 	s = mustSolver(t, Model{Mesh: m, Materials: map[int32]Material{1: neg}}, 300)
 	if _, err := s.Step(1, nil); err == nil {
 		t.Error("negative conductivity accepted")
+	}
+}
+
+// A quadratic mesh is solved on its corners; midpoint nodes report the mean of their edge's ends, and nodes of
+// triangles outside the parts report NaN.
+func TestQuadraticMeshAndForeignRegions(t *testing.T) {
+	m := rectMesh(0, 0.02, 0, 0.01, 4, 2, 1)
+	for i, tri := range m.Tris { // the outer half is "air"
+		if m.Nodes[tri[0]].X >= 0.01 && m.Nodes[tri[1]].X >= 0.01 && m.Nodes[tri[2]].X >= 0.01 {
+			m.Tags[i] = 9
+		}
+	}
+	// Add midpoint nodes, shared between neighbouring triangles.
+	mids := map[[2]int32]int32{}
+	for _, tri := range m.Tris {
+		var mid [3]int32
+		for k := 0; k < 3; k++ {
+			a, b := tri[k], tri[(k+1)%3]
+			key := [2]int32{min(a, b), max(a, b)}
+			v, ok := mids[key]
+			if !ok {
+				v = int32(len(m.Nodes))
+				m.Nodes = append(m.Nodes, mesh.Point{X: (m.Nodes[a].X + m.Nodes[b].X) / 2, Y: (m.Nodes[a].Y + m.Nodes[b].Y) / 2})
+				mids[key] = v
+			}
+			mid[k] = v
+		}
+		m.Mid = append(m.Mid, mid)
+	}
+	T0 := make([]float64, len(m.Nodes))
+	for i, p := range m.Nodes {
+		T0[i] = 300 + 1e4*p.X
+	}
+	s := mustSolver(t, Model{Mesh: m, Materials: map[int32]Material{1: Constant{K: 10, Rho: 1000, Cp: 1000}}}, T0...)
+	mustStep(t, s, 0.1, uniformSource(m, 1e6))
+	T := s.Temperature()
+	if len(T) != len(m.Nodes) {
+		t.Fatalf("%d temperatures for %d nodes", len(T), len(m.Nodes))
+	}
+	for key, v := range mids {
+		a, b := m.Nodes[key[0]], m.Nodes[key[1]]
+		inPart := math.Max(a.X, b.X) <= 0.01
+		switch {
+		case inPart && math.Abs(T[v]-(T[key[0]]+T[key[1]])/2) > 1e-12:
+			t.Errorf("midpoint %d: %g K, ends %g and %g K", v, T[v], T[key[0]], T[key[1]])
+		case !inPart && math.Min(a.X, b.X) > 0.01 && !math.IsNaN(T[v]):
+			t.Errorf("midpoint %d outside the part: %g K, want NaN", v, T[v])
+		}
+	}
+	if want := math.Pi * 0.01 * 0.01 * 0.01; relErr(s.Volume(), want) > 1e-12 {
+		t.Errorf("part volume %g m³, want %g (air triangles must not count)", s.Volume(), want)
+	}
+	if relErr(s.Energy().Source, 1e6*s.Volume()*0.1) > 1e-12 {
+		t.Errorf("source energy %g J, want %g", s.Energy().Source, 1e6*s.Volume()*0.1)
+	}
+}
+
+// Property: whatever the sources, coefficients and step sizes, every step balances to the Newton tolerance and a
+// failed step leaves the state untouched.
+func TestEnergyBalanceProperty(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 2))
+	steps, split, newton := 0, 0, 0
+	defer func() {
+		t.Logf("%d steps, %d split, %.1f Newton iterations per step", steps, split, float64(newton)/float64(steps))
+	}()
+	for trial := 0; trial < 40; trial++ {
+		nr, nz := 3+rng.IntN(8), 3+rng.IntN(8)
+		m := rectMesh(0, 0.005+0.02*rng.Float64(), 0, 0.005+0.02*rng.Float64(), nr, nz, 1)
+		for i := range m.Tags {
+			if rng.Float64() < 0.3 {
+				m.Tags[i] = 2
+			}
+		}
+		bnd := edgesWhere(m, func(a, b mesh.Point) bool { return rng.Float64() < 0.8 }, func(i, j int32) BoundaryEdge {
+			return BoundaryEdge{A: i, B: j, HeatTransfer: 100 * rng.Float64(), Ambient: 280 + 40*rng.Float64(),
+				Emissivity: rng.Float64(), Flux: 1e4 * (rng.Float64() - 0.5)}
+		})
+		mats := map[int32]Material{1: alu, 2: Constant{K: 5 + 50*rng.Float64(), Rho: 8000, Cp: 500,
+			Melt: Melting{Point: 1000 + 500*rng.Float64(), Latent: 2e5, Mushy: 5 * rng.Float64()}}}
+		s := mustSolver(t, Model{Mesh: m, Materials: mats, Boundary: bnd}, 300+600*rng.Float64())
+		src := make([]float64, len(m.Tris))
+		for step := 0; step < 15; step++ {
+			for i := range src {
+				src[i] = 2e9 * rng.Float64() * rng.Float64()
+			}
+			dt := math.Pow(10, -2+3*rng.Float64())
+			info, err := s.Step(dt, src)
+			if err != nil {
+				t.Fatalf("trial %d step %d (dt %g s): %v", trial, step, dt, err)
+			}
+			steps++
+			newton += info.Iterations
+			if info.Substeps > 1 {
+				split++
+			}
+			if e := s.EnergyBalanceError(); e > 1e-8 {
+				t.Fatalf("trial %d step %d: balance error %g", trial, step, e)
+			}
+		}
+		before := append([]float64(nil), s.Temperature()...)
+		bad := make([]float64, len(m.Tris))
+		bad[len(bad)/2] = math.NaN()
+		if _, err := s.Step(1, bad); err == nil {
+			t.Fatal("bad source accepted")
+		}
+		for i, v := range s.Temperature() {
+			if v != before[i] && !(math.IsNaN(v) && math.IsNaN(before[i])) {
+				t.Fatalf("failed step changed node %d: %g → %g K", i, before[i], v)
+			}
+		}
 	}
 }
