@@ -142,3 +142,40 @@ func TestCylinderConvergence(t *testing.T) {
 		}
 	}
 }
+
+// Point evaluation: B_z from At against μ0 Hs I0(γr)/I0(γa) inside the bar (axis included) and μ0 Hs in the
+// gap; J against the Kelvin profile; outside the mesh ok is false.
+func TestSolutionAt(t *testing.T) {
+	const a, sigma = 0.01, 1 / 1.72e-8
+	d := a / 3
+	f := 2 / (d * d * Mu0 * sigma) / (2 * math.Pi)
+	c := cylinderCase{a: a, gap: 0.3, sigma: sigma, f: f, b0: 0.02, quad: true, refineBy: 2} // B is a derivative: O(h²) pointwise
+	sol, err := Solve(c.problem())
+	if err != nil {
+		t.Fatal(err)
+	}
+	hs, jx := c.exact()
+	g := cylGamma(sigma, 1, f)
+	i0a, _ := besselI(g * complex(a, 0))
+	scale := cmplx.Abs(hs) * Mu0
+	for _, r := range []float64{0, 0.002, 0.005, 0.0087, 0.0099, 0.011, 0.0125} {
+		v, ok := sol.At(r, a/20)
+		if !ok {
+			t.Fatalf("r=%g: not located", r)
+		}
+		want := complex(Mu0, 0) * hs
+		if r < a {
+			i0, _ := besselI(g * complex(r, 0))
+			want *= i0 / i0a
+			if e := cmplx.Abs(v.J-jx(r)) / cmplx.Abs(jx(a)); e > 2e-3 {
+				t.Errorf("r=%g: J = %v, Kelvin %v", r, v.J, jx(r))
+			}
+		}
+		if e := cmplx.Abs(v.Bz-want) / scale; e > 2e-3 {
+			t.Errorf("r=%g: Bz = %v, exact %v (rel %.1e)", r, v.Bz, want, e)
+		}
+	}
+	if _, ok := sol.At(2*a, 0); ok {
+		t.Errorf("a point outside the mesh was located")
+	}
+}

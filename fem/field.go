@@ -10,6 +10,7 @@ import (
 	"path/filepath"
 
 	"eddyrz/fem/sparse"
+	"eddyrz/mesh"
 )
 
 // QuadPoint is the field at one quadrature point of the solution, for integrating derived quantities:
@@ -188,59 +189,46 @@ type FieldValue struct {
 	Tag          int32
 }
 
-// At evaluates the field at (r, z) (m); ok is false outside the mesh. It searches every triangle (O(n) per
-// call): fine for probes, too slow for maps — use EachPoint for integrals.
+// At evaluates the field at (r, z) (m); ok is false outside the mesh. Point location uses a bucket index of
+// the mesh, built on the first call (safe for concurrent callers).
 func (s *Solution) At(r, z float64) (v FieldValue, ok bool) {
+	s.locOnce.Do(func() { s.loc = s.Mesh.Index() })
+	t, l := s.loc.Locate(mesh.Point{X: r, Y: z})
+	if t < 0 {
+		return v, false
+	}
 	m := s.Mesh
 	nl := s.Order.NumNodes()
-	for t, tri := range m.Tris {
-		var p [3][2]float64
-		for k, n := range tri {
-			p[k] = [2]float64{m.Nodes[n].X, m.Nodes[n].Y}
-		}
-		area, gl := triGeom(p)
-		var l [3]float64
-		in := true
-		for k := range 3 {
-			l[k] = gl[k][0]*(r-p[(k+1)%3][0]) + gl[k][1]*(z-p[(k+1)%3][1])
-			if l[k] < -1e-12 {
-				in = false
-			}
-		}
-		if !in || area <= 0 {
-			continue
-		}
-		nd := make([]int, nl)
-		sh, dr, dz := make([]float64, nl), make([]float64, nl), make([]float64, nl)
-		for k, n := range tri {
-			nd[k] = int(n)
-		}
-		if nl == 6 {
-			for k, n := range m.Mid[t] {
-				nd[3+k] = int(n)
-			}
-		}
-		s.Order.Shape(l, sh)
-		s.Order.ShapeGrad(l, gl, dr, dz)
-		var dAr, dAz complex128
-		for i, n := range nd {
-			v.A += s.A[n] * complex(sh[i], 0)
-			dAr += s.A[n] * complex(dr[i], 0)
-			dAz += s.A[n] * complex(dz[i], 0)
-		}
-		v.Br = -dAz
-		if r > 0 {
-			v.Bz = dAr + v.A/complex(r, 0)
-		} else {
-			v.Bz = 2 * dAr // A = 0 on the axis, so A/r → ∂A/∂r
-		}
-		v.Tag = m.Tags[t]
-		if r > 0 {
-			v.J = s.currentDensity(s.elemRg[t], r, v.A, 2*math.Pi*s.Frequency)
-		}
-		return v, true
+	var p [3][2]float64
+	nd := make([]int, nl)
+	for k, n := range m.Tris[t] {
+		p[k] = [2]float64{m.Nodes[n].X, m.Nodes[n].Y}
+		nd[k] = int(n)
 	}
-	return v, false
+	if nl == 6 {
+		for k, n := range m.Mid[t] {
+			nd[3+k] = int(n)
+		}
+	}
+	_, gl := triGeom(p)
+	sh, dr, dz := make([]float64, nl), make([]float64, nl), make([]float64, nl)
+	s.Order.Shape(l, sh)
+	s.Order.ShapeGrad(l, gl, dr, dz)
+	var dAr, dAz complex128
+	for i, n := range nd {
+		v.A += s.A[n] * complex(sh[i], 0)
+		dAr += s.A[n] * complex(dr[i], 0)
+		dAz += s.A[n] * complex(dz[i], 0)
+	}
+	v.Br = -dAz
+	if r > 0 {
+		v.Bz = dAr + v.A/complex(r, 0)
+		v.J = s.currentDensity(s.elemRg[t], r, v.A, 2*math.Pi*s.Frequency)
+	} else {
+		v.Bz = 2 * dAr // A = 0 on the axis, so A/r → ∂A/∂r there
+	}
+	v.Tag = m.Tags[t]
+	return v, true
 }
 
 // ExportSystem writes the solved linear system to dir as A.mtx (Matrix Market coordinate complex symmetric,

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"sync"
 	"time"
 
 	"eddyrz/fem/sparse"
@@ -111,7 +112,10 @@ type Solution struct {
 	axis   []bool
 	rules  Rules
 	sys    *sparse.Matrix
-	rhs    []complex128
+	// point location for At, built on first use
+	locOnce sync.Once
+	loc     *mesh.Locator
+	rhs     []complex128
 }
 
 func (a *Assembler) solution(f float64, m *sparse.Matrix, b, x []complex128, st Stats) *Solution {
