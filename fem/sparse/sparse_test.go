@@ -490,11 +490,25 @@ func TestSymbolicReuse(t *testing.T) {
 	}
 }
 
-// TestDenseRowsLast: graph-only orderings must hold dense border rows back to the end, or fill explodes: with
-// three border rows the factor may grow by at most the three dense columns (≤ 3N entries) over the bare grid.
+// TestDenseRowsLast: graph-only orderings must hold dense border rows (here coupled to every other grid node)
+// back to the end, or the separators short-circuit and fill explodes; allowed growth is the dense columns
+// themselves (≤ 2N entries) plus 10 % of the bare grid's factor.
 func TestDenseRowsLast(t *testing.T) {
-	a, _, _ := newAxi(82, 3).build()
 	a0, _, _ := newAxi(82, 0).build()
+	n0 := a0.N
+	tr := NewTriplet(n0+2, a0.Nnz()+n0+2)
+	for j := 0; j < n0; j++ {
+		for p := a0.ColPtr[j]; p < a0.ColPtr[j+1]; p++ {
+			tr.Add(int(a0.RowIdx[p]), j, a0.Val[p])
+		}
+	}
+	for k := 0; k < 2; k++ {
+		for i := k; i < n0; i += 2 {
+			tr.Add(n0+k, i, 1e-3)
+		}
+		tr.Add(n0+k, n0+k, -1e6i)
+	}
+	a, _ := tr.Compile()
 	for _, o := range []Ordering{OrderNestedDissection, OrderMinimumDegree} {
 		s, err := Analyze(a, Options{Ordering: o})
 		if err != nil {
@@ -506,8 +520,8 @@ func TestDenseRowsLast(t *testing.T) {
 		}
 		grow := s.Stats().NnzL - s0.Stats().NnzL
 		t.Logf("%v: nnz(L) %d with border, %d without", o, s.Stats().NnzL, s0.Stats().NnzL)
-		if grow > 3*int64(a.N) {
-			t.Errorf("%v: border rows added %d entries to L (> 3N = %d)", o, grow, 3*a.N)
+		if grow > 2*int64(a.N)+s0.Stats().NnzL/10 {
+			t.Errorf("%v: border rows added %d entries to L", o, grow)
 		}
 	}
 }
