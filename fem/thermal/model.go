@@ -10,8 +10,10 @@
 // maximum principle), backward Euler in time, and an enthalpy formulation H(T) = ∫ρc dT + ρL·f_l(T) with the nodal
 // energy as unknown: each step is solved by Newton iterations on the energy (conductivity lagged, i.e. Picard in k;
 // radiation linearised exactly), whose linear systems are symmetric positive definite and solved by conjugate
-// gradients with an incomplete-Cholesky preconditioner. Because the stored energy is evaluated from the same H(T) as
-// the unknown, latent heat is conserved exactly; the energy balance closes to the Newton tolerance.
+// gradients with an incomplete-Cholesky preconditioner. A Newton move that leaves a melting interval stops on its
+// edge (the tangent changes there by ρL/(ρc·w)), and a step that still does not converge is split in halves.
+// Because the stored energy is evaluated from the same H(T) as the unknown, latent heat is conserved exactly; the
+// energy balance closes to the Newton tolerance.
 //
 // Temperatures are kelvin everywhere in this package; convert from and to °C only at the user's edge.
 package thermal

@@ -1,6 +1,10 @@
 package thermal
 
-import "math"
+import (
+	"math"
+
+	"eddyrz/mesh"
+)
 
 // Time returns the simulated time, s.
 func (s *Solver) Time() float64 { return s.time }
@@ -111,6 +115,12 @@ func (s *Solver) extreme(sign float64) NodeValue {
 // Probe returns the temperature (K) at (r, z) in metres, interpolated linearly in the part triangle that contains
 // the point, and false when no part triangle does.
 func (s *Solver) Probe(r, z float64) (float64, bool) {
+	if tri, bary := s.loc.Locate(mesh.Point{X: r, Y: z}); tri >= 0 && s.elemOf[tri] >= 0 {
+		el := &s.elems[s.elemOf[tri]]
+		return bary[0]*s.t[el.n[0]] + bary[1]*s.t[el.n[1]] + bary[2]*s.t[el.n[2]], true
+	}
+	// On an edge between a part and another region the locator may answer with the other triangle: look among
+	// the part triangles themselves.
 	nodes := s.model.Mesh.Nodes
 	for ei := range s.elems {
 		el := &s.elems[ei]

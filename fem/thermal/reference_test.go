@@ -278,3 +278,60 @@ func TestRadiationLumped(t *testing.T) {
 		t.Errorf("energy balance error %g", e)
 	}
 }
+
+// Test 3d on a quality triangulation of two layers with different conductivities (nodes on r = r_c belong to both
+// materials): with uniform generation the radial flux is q r/2 in either layer, so integrating the radial equation
+// of Incropera & DeWitt §3.5.2 (section from memory) layer by layer gives
+// T = T_s + q (a² − r²)/(4 k_out) for r ≥ r_c and T = T(r_c) + q (r_c² − r²)/(4 k_in) for r ≤ r_c,
+// with T_s = T_amb + q a/(2h); top and bottom are insulated.
+func TestSteadyCompositeUnstructured(t *testing.T) {
+	const a, rc, hgt, q, kIn, kOut, h, Ta = 0.02, 0.012, 0.01, 5e6, 15.0, 60.0, 400.0, 300.0
+	g := mesh.PSLG{
+		Points: []mesh.Point{{X: 0, Y: 0}, {X: rc, Y: 0}, {X: a, Y: 0}, {X: a, Y: hgt}, {X: rc, Y: hgt}, {X: 0, Y: hgt}},
+		Segments: []mesh.Segment{{A: 0, B: 1, Tag: 4}, {A: 1, B: 2, Tag: 4}, {A: 2, B: 3, Tag: 3}, {A: 3, B: 4, Tag: 4},
+			{A: 4, B: 5, Tag: 4}, {A: 5, B: 0, Tag: 1}, {A: 1, B: 4, Tag: 0}},
+		Regions: []mesh.RegionSeed{{P: mesh.Point{X: rc / 2, Y: hgt / 2}, Tag: 1}, {P: mesh.Point{X: (a + rc) / 2, Y: hgt / 2}, Tag: 2}},
+	}
+	m, err := mesh.Triangulate(g, mesh.Options{MaxArea: 0.5e-3 * 0.5e-3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var bnd []BoundaryEdge
+	for _, e := range m.Edges {
+		if e.Tag == 3 {
+			bnd = append(bnd, BoundaryEdge{A: e.A, B: e.B, HeatTransfer: h, Ambient: Ta})
+		}
+	}
+	mats := map[int32]Material{1: Constant{K: kIn, Rho: 7000, Cp: 500}, 2: Constant{K: kOut, Rho: 8900, Cp: 390}}
+	s := mustSolver(t, Model{Mesh: m, Materials: mats, Boundary: bnd}, Ta)
+	src := uniformSource(m, q)
+	for i := 0; i < 2; i++ {
+		mustStep(t, s, 1e9, src)
+	}
+	Ts := Ta + q*a/(2*h)
+	Tc := Ts + q*(a*a-rc*rc)/(4*kOut)
+	exact := func(r float64) float64 {
+		if r >= rc {
+			return Ts + q*(a*a-r*r)/(4*kOut)
+		}
+		return Tc + q*(rc*rc-r*r)/(4*kIn)
+	}
+	rise := exact(0) - Ts
+	worst := 0.0
+	for _, r := range []float64{0, 0.003, 0.006, 0.009, 0.012, 0.015, 0.018, 0.02} {
+		for _, z := range []float64{0, 0.0037, hgt} {
+			got, ok := s.Probe(r, z)
+			if !ok {
+				t.Fatalf("probe (%g, %g) outside", r, z)
+			}
+			worst = math.Max(worst, math.Abs(got-exact(r))/rise)
+		}
+	}
+	t.Logf("%d nodes; largest deviation %.2g of the %.2f K centre rise", len(m.Nodes), worst, rise)
+	if worst > 0.005 {
+		t.Errorf("largest deviation %.3g of the centre rise, want ≤ 0.5 %%", worst)
+	}
+	if e := s.EnergyBalanceError(); e > 1e-8 {
+		t.Errorf("energy balance error %g", e)
+	}
+}

@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"math"
 	"sort"
+
+	"eddyrz/mesh"
 )
 
 // ErrNotConverged is returned (wrapped) by Step when the Newton iterations do not reach the tolerance even after
@@ -48,6 +50,8 @@ type Solver struct {
 	global []int32 // local node → mesh node
 	local  []int32 // mesh node → local node, −1 outside the parts
 	elems  []element
+	elemOf []int32 // mesh triangle → element, −1 outside the parts
+	loc    *mesh.Locator
 	mats   []Material
 	tabs   []*enthalpy
 	// Volume of each node per material: entries capStart[i]..capStart[i+1] of capMat/capVol.
@@ -194,6 +198,15 @@ func NewSolver(m Model, T0 []float64) (*Solver, error) {
 	for i := 0; i < n; i++ {
 		s.capStart[i+1] += s.capStart[i]
 	}
+
+	s.elemOf = make([]int32, len(msh.Tris))
+	for i := range s.elemOf {
+		s.elemOf[i] = -1
+	}
+	for ei, el := range s.elems {
+		s.elemOf[el.tri] = int32(ei)
+	}
+	s.loc = msh.Index()
 
 	s.kinkStart = make([]int32, n+1)
 	for i := 0; i < n; i++ {
