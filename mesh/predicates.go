@@ -1,6 +1,9 @@
 package mesh
 
-import "math"
+import (
+	"math"
+	"sync"
+)
 
 // Robust geometric predicates after J. R. Shewchuk, "Adaptive Precision Floating-Point Arithmetic and Fast
 // Robust Geometric Predicates", Discrete & Computational Geometry 18:305–363 (1997). Each predicate first
@@ -67,34 +70,59 @@ func InCircle(a, b, c, d Point) float64 {
 	return inCircleExact(a, b, c, d)
 }
 
+// arena hands out slices of one fixed buffer, so the exact stages allocate nothing on the heap.
+type arena struct {
+	buf [8192]float64
+	n   int
+}
+
+// arenas recycles scratch buffers between exact evaluations (a concurrency-safe cache, not shared state:
+// every call takes a buffer of its own).
+var arenas = sync.Pool{New: func() any { return new(arena) }}
+
+func (a *arena) get(n int) []float64 {
+	s := a.buf[a.n : a.n : a.n+n]
+	a.n += n
+	return s
+}
+
 // orient2DExact evaluates (ax-cx)(by-cy) - (ay-cy)(bx-cx) exactly and returns its most significant component.
 func orient2DExact(a, b, c Point) float64 {
-	var buf [4][2]float64
-	acx := twoDiff(a.X, c.X, buf[0][:0])
-	bcy := twoDiff(b.Y, c.Y, buf[1][:0])
-	acy := twoDiff(a.Y, c.Y, buf[2][:0])
-	bcx := twoDiff(b.X, c.X, buf[3][:0])
-	l := expMul(acx, bcy)
-	r := expMul(acy, bcx)
-	return expEstimate(expSum(l, expNeg(r)))
+	ar := arenas.Get().(*arena)
+	ar.n = 0
+	defer arenas.Put(ar)
+	acx := twoDiff(a.X, c.X, ar.get(2))
+	bcy := twoDiff(b.Y, c.Y, ar.get(2))
+	acy := twoDiff(a.Y, c.Y, ar.get(2))
+	bcx := twoDiff(b.X, c.X, ar.get(2))
+	l := expMul(ar, acx, bcy)
+	r := expMul(ar, acy, bcx)
+	neg(r)
+	return expEstimate(expSum(ar, l, r))
 }
 
 // inCircleExact evaluates the in-circle determinant with d translated to the origin, exactly.
 func inCircleExact(a, b, c, d Point) float64 {
-	var buf [6][2]float64
-	adx := twoDiff(a.X, d.X, buf[0][:0])
-	ady := twoDiff(a.Y, d.Y, buf[1][:0])
-	bdx := twoDiff(b.X, d.X, buf[2][:0])
-	bdy := twoDiff(b.Y, d.Y, buf[3][:0])
-	cdx := twoDiff(c.X, d.X, buf[4][:0])
-	cdy := twoDiff(c.Y, d.Y, buf[5][:0])
-	alift := expSum(expMul(adx, adx), expMul(ady, ady))
-	blift := expSum(expMul(bdx, bdx), expMul(bdy, bdy))
-	clift := expSum(expMul(cdx, cdx), expMul(cdy, cdy))
-	bc := expSum(expMul(bdx, cdy), expNeg(expMul(cdx, bdy)))
-	ca := expSum(expMul(cdx, ady), expNeg(expMul(adx, cdy)))
-	ab := expSum(expMul(adx, bdy), expNeg(expMul(bdx, ady)))
-	det := expSum(expSum(expMul(alift, bc), expMul(blift, ca)), expMul(clift, ab))
+	ar := arenas.Get().(*arena)
+	ar.n = 0
+	defer arenas.Put(ar)
+	adx := twoDiff(a.X, d.X, ar.get(2))
+	ady := twoDiff(a.Y, d.Y, ar.get(2))
+	bdx := twoDiff(b.X, d.X, ar.get(2))
+	bdy := twoDiff(b.Y, d.Y, ar.get(2))
+	cdx := twoDiff(c.X, d.X, ar.get(2))
+	cdy := twoDiff(c.Y, d.Y, ar.get(2))
+	lift := func(x, y []float64) []float64 { return expSum(ar, expMul(ar, x, x), expMul(ar, y, y)) }
+	cross := func(x1, y1, x2, y2 []float64) []float64 {
+		r := expMul(ar, x2, y1)
+		neg(r)
+		return expSum(ar, expMul(ar, x1, y2), r)
+	}
+	alift, blift, clift := lift(adx, ady), lift(bdx, bdy), lift(cdx, cdy)
+	bc := cross(bdx, bdy, cdx, cdy)
+	ca := cross(cdx, cdy, adx, ady)
+	ab := cross(adx, ady, bdx, bdy)
+	det := expSum(ar, expSum(ar, expMul(ar, alift, bc), expMul(ar, blift, ca)), expMul(ar, clift, ab))
 	return expEstimate(det)
 }
 
@@ -126,45 +154,68 @@ func twoDiff(a, b float64, dst []float64) []float64 {
 	return dst
 }
 
-// growExpansion returns e + b as a new non-overlapping expansion without zero components (Shewchuk's
-// Grow-Expansion with zero elimination).
-func growExpansion(e []float64, b float64, dst []float64) []float64 {
-	q := b
-	for _, ei := range e {
-		var h float64
-		q, h = twoSum(q, ei)
-		if h != 0 {
-			dst = append(dst, h)
+// expSum returns e + f exactly as a zero-free non-overlapping expansion: merge the components by magnitude,
+// then sweep with exact two-sums (Shewchuk's Fast-Expansion-Sum with zero elimination, using Two-Sum).
+func expSum(ar *arena, e, f []float64) []float64 {
+	g := ar.get(len(e) + len(f))
+	i, j := 0, 0
+	for i < len(e) || j < len(f) {
+		if j == len(f) || (i < len(e) && math.Abs(e[i]) < math.Abs(f[j])) {
+			g = append(g, e[i])
+			i++
+		} else {
+			g = append(g, f[j])
+			j++
 		}
 	}
-	if q != 0 {
-		dst = append(dst, q)
+	if len(g) < 2 {
+		return g
 	}
-	return dst
-}
-
-// expSum returns e + f exactly.
-func expSum(e, f []float64) []float64 {
-	h := append(make([]float64, 0, len(e)+len(f)), e...)
-	for _, fi := range f {
-		h = growExpansion(h, fi, make([]float64, 0, len(h)+1))
+	q := g[0]
+	h := g[:0]
+	for _, x := range g[1:] {
+		var hh float64
+		q, hh = twoSum(q, x)
+		if hh != 0 {
+			h = append(h, hh)
+		}
 	}
-	return h
-}
-
-// expNeg returns -e.
-func expNeg(e []float64) []float64 {
-	h := make([]float64, len(e))
-	for i, v := range e {
-		h[i] = -v
+	if q != 0 || len(h) == 0 {
+		h = append(h, q)
 	}
 	return h
 }
 
-// scaleExpansion returns e·b exactly (Shewchuk's Scale-Expansion with zero elimination).
-func scaleExpansion(e []float64, b float64) []float64 {
-	h := make([]float64, 0, 2*len(e))
-	if len(e) == 0 || b == 0 {
+func neg(e []float64) {
+	for i := range e {
+		e[i] = -e[i]
+	}
+}
+
+// expMul returns e·f exactly, as the sum of e scaled by each component of f.
+func expMul(ar *arena, e, f []float64) []float64 {
+	if len(e) == 0 || len(f) == 0 {
+		return nil
+	}
+	mark := ar.n
+	var acc []float64
+	var tmp [2][]float64
+	tmp[0], tmp[1] = ar.get(2*len(e)*len(f)), ar.get(2*len(e)*len(f))
+	sc := ar.get(2 * len(e))
+	for k, fi := range f {
+		s := scaleInto(sc, e, fi)
+		acc = sumInto(tmp[k%2], acc, s)
+	}
+	// Move the result to the front of this call's scratch so the rest can be reused.
+	out := ar.buf[mark : mark : mark+len(acc)]
+	out = append(out, acc...)
+	ar.n = mark + len(out)
+	return out
+}
+
+func scaleInto(dst, e []float64, b float64) []float64 {
+	h := dst[:0]
+	if b == 0 {
 		return h
 	}
 	q, hh := twoProduct(e[0], b)
@@ -189,11 +240,33 @@ func scaleExpansion(e []float64, b float64) []float64 {
 	return h
 }
 
-// expMul returns e·f exactly.
-func expMul(e, f []float64) []float64 {
-	var h []float64
-	for _, fi := range f {
-		h = expSum(h, scaleExpansion(e, fi))
+// sumInto is expSum writing into dst (capacity len(e)+len(f), not aliasing e or f).
+func sumInto(dst, e, f []float64) []float64 {
+	g := dst[:0]
+	i, j := 0, 0
+	for i < len(e) || j < len(f) {
+		if j == len(f) || (i < len(e) && math.Abs(e[i]) < math.Abs(f[j])) {
+			g = append(g, e[i])
+			i++
+		} else {
+			g = append(g, f[j])
+			j++
+		}
+	}
+	if len(g) < 2 {
+		return g
+	}
+	q := g[0]
+	h := g[:0]
+	for _, x := range g[1:] {
+		var hh float64
+		q, hh = twoSum(q, x)
+		if hh != 0 {
+			h = append(h, hh)
+		}
+	}
+	if q != 0 || len(h) == 0 {
+		h = append(h, q)
 	}
 	return h
 }

@@ -195,17 +195,23 @@ func (r *refiner) exempt(t int32, i int) bool {
 		return false
 	}
 	s1, s2 := b.segs[sp], b.segs[sq]
-	var o int32 = -1
-	switch {
-	case s1.A == s2.A || s1.A == s2.B:
-		o = s1.A
-	case s1.B == s2.A || s1.B == s2.B:
-		o = s1.B
-	default:
-		return false
+	// The vertex where the two segments meet: an end point of one lying on the other.
+	for _, o := range [4]int32{s1.A, s1.B, s2.A, s2.B} {
+		if b.onSeg(o, s1) && b.onSeg(o, s2) {
+			dp, dq := dist2(b.pts[o], b.pts[p]), dist2(b.pts[o], b.pts[q])
+			return math.Abs(dp-dq) <= 1e-3*max(dp, dq)
+		}
 	}
-	dp, dq := dist2(b.pts[o], b.pts[p]), dist2(b.pts[o], b.pts[q])
-	return math.Abs(dp-dq) <= 1e-3*max(dp, dq)
+	return false
+}
+
+// onSeg reports whether vertex o is an end point of s or lies exactly on it.
+func (b *builder) onSeg(o int32, s Segment) bool {
+	if o == s.A || o == s.B {
+		return true
+	}
+	pa, pb, po := b.pts[s.A], b.pts[s.B], b.pts[o]
+	return Orient2D(pa, pb, po) == 0 && dot(pa, pb, po) > 0 && dot(pb, pa, po) > 0
 }
 
 func dist2(a, c Point) float64 { return (a.X-c.X)*(a.X-c.X) + (a.Y-c.Y)*(a.Y-c.Y) }
