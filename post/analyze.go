@@ -195,7 +195,7 @@ func Analyze(sol *fem.Solution, opt Options) (*Result, error) {
 		pr.ForceZ -= real(q.J*cmplx.Conj(q.Br)) * q.Weight
 		pr.ForceR += real(q.J*cmplx.Conj(q.Bz)) * q.Weight
 		pr.peak(p, q.R, q.Z)
-		if pw.o.dist(pointRZ(q.R, q.Z)) <= pw.delta {
+		if pw.o.distWithin(pointRZ(q.R, q.Z), pw.delta) <= pw.delta {
 			skin[pi] += p * q.Weight
 		}
 		pr.Thirds[third(q.Z, pr.ZMin, pr.ZMax)] += p * q.Weight

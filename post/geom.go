@@ -179,3 +179,29 @@ func (o *outline) dist(p mesh.Point) float64 {
 }
 
 func pointRZ(r, z float64) mesh.Point { return mesh.Point{X: r, Y: z} }
+
+// distWithin is the distance from p to the outline's segments when it is at most maxD (m), and +Inf otherwise.
+// It visits only the grid cells that overlap the square of half-side maxD around p, so it is cheap for points
+// deep inside or far from a large part.
+func (o *outline) distWithin(p mesh.Point, maxD float64) float64 {
+	if len(o.segs) == 0 || o.boxDist(p) > maxD {
+		return math.Inf(1)
+	}
+	i0, j0 := o.cell(mesh.Point{X: p.X - maxD, Y: p.Y - maxD})
+	i1, j1 := o.cell(mesh.Point{X: p.X + maxD, Y: p.Y + maxD})
+	best := maxD * maxD
+	found := false
+	for j := j0; j <= j1; j++ {
+		for i := i0; i <= i1; i++ {
+			for _, s := range o.boxCells[j*o.nx+i] {
+				if d := o.segs[s].dist2(p); d <= best {
+					best, found = d, true
+				}
+			}
+		}
+	}
+	if !found {
+		return math.Inf(1)
+	}
+	return math.Sqrt(best)
+}

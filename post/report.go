@@ -21,7 +21,7 @@ var cautions = [...]string{
 	"Strong alternating magnetic fields near the coil: keep people with implanted medical devices away.",
 	"Metal objects, rings and watches near the coil heat quickly; remove them before operating.",
 	"Run cooling water before power is applied and interlock the supply on water flow and temperature.",
-	"Heated parts and molten metal look the same hot or cold; handle with tools and protective equipment.",
+	"Hot metal need not glow: handle heated parts and melts with tools and protective equipment.",
 	"Moisture or wet tools in contact with molten metal can cause a steam explosion.",
 	"Results are a model: verify on the real equipment at reduced power first.",
 	"Follow local electrical and radio-frequency emission codes; installation and repair by licensed practice.",
@@ -207,7 +207,7 @@ func (rep *Report) WriteText(w io.Writer) error {
 	p("frequency\t%s Hz", gnum(rep.FrequencyHz))
 	p("mesh\t%d nodes, %d triangles, %d unknowns", rep.Mesh.Nodes, rep.Mesh.Triangles, rep.Mesh.Unknowns)
 	for _, c := range rep.Coils {
-		p("coil %q", c.Name)
+		p("coil %q\t", c.Name)
 		p("  current\t%s A rms", gnum(c.CurrentAbs))
 		p("  voltage\t%s V rms", gnum(c.VoltageAbs))
 		p("  impedance\t%s + j%s Ω", gnum(c.Impedance.Re), gnum(c.Impedance.Im))
@@ -217,7 +217,7 @@ func (rep *Report) WriteText(w io.Writer) error {
 		p("  coil loss\t%s W in %d turn(s)", gnum(c.Loss), len(c.Turns))
 	}
 	for _, q := range rep.Parts {
-		p("part %q", q.Name)
+		p("part %q\t", q.Name)
 		p("  power\t%s W", gnum(q.Power))
 		p("  axial force\t%s N (stress check %s N, rel. diff. %s)", gnum(q.ForceZ), gnum(q.ForceZStress), gnum(q.StressDiff))
 		p("  peak power density\t%s W/m³ at r = %s m, z = %s m", gnum(q.PeakDensity), gnum(q.PeakAt[0]), gnum(q.PeakAt[1]))

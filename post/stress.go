@@ -88,10 +88,10 @@ func (mi *meshInfo) newShell(ri int, o *outline) (*shell, string) {
 	}
 	for v := range int32(m.NumVertices) {
 		p := m.Nodes[v]
-		if inPart[v] || o.boxDist(p) >= sh.outer {
+		if inPart[v] {
 			continue
 		}
-		if d := o.dist(p); d < sh.outer {
+		if d := o.distWithin(p, sh.outer); d < sh.outer {
 			g[v] = min(1, (sh.outer-d)/(sh.outer-sh.inner))
 		}
 	}
