@@ -1,0 +1,84 @@
+package study
+
+import (
+	"fmt"
+	"math"
+	"math/cmplx"
+
+	"eddyrz/fem"
+	"eddyrz/geometry"
+	"eddyrz/post"
+)
+
+// Solution is one solved job: the model, the raw field (at the drive the job file asks for, or at 1 A for a
+// power-driven coil), and the designer's quantities at the job's drive level.
+type Solution struct {
+	Model  *Model
+	Field  *fem.Solution
+	Result *post.Result
+	// Scale is the factor from Field's sources to Result's: 1, or the current (A rms per A) a power-driven coil
+	// needs to put the wanted power into its part.
+	Scale complex128
+}
+
+// Solve lays out, meshes and solves job and derives its quantities.
+func Solve(job *geometry.Job) (*Solution, error) {
+	md, err := Build(job)
+	if err != nil {
+		return nil, err
+	}
+	return md.Solve()
+}
+
+// Solve solves the model's field problem and derives its quantities.
+func (md *Model) Solve() (*Solution, error) {
+	sol, err := fem.Solve(md.Problem)
+	if err != nil {
+		return nil, fmt.Errorf("solving %s: %w", md.Job.File, err)
+	}
+	return md.analyze(sol)
+}
+
+// analyze derives the quantities of a solved field and applies a power drive's scale.
+func (md *Model) analyze(sol *fem.Solution) (*Solution, error) {
+	res, err := post.Analyze(sol, post.Options{MeshTime: md.MeshTime})
+	if err != nil {
+		return nil, fmt.Errorf("analysing %s: %w", md.Job.File, err)
+	}
+	s := &Solution{Model: md, Field: sol, Result: res, Scale: 1}
+	if md.PowerDrive >= 0 {
+		c := md.Job.Coils[md.PowerDrive]
+		s.Result, s.Scale, err = res.ScaleToPartPower(c.Into, c.Value)
+		if err != nil {
+			return nil, fmt.Errorf("coil %q: %w", c.Name, err)
+		}
+	}
+	if err := s.check(); err != nil {
+		return nil, err
+	}
+	return s, nil
+}
+
+// check refuses a result that holds a non-finite number where a design figure is expected.
+func (s *Solution) check() error {
+	bad := func(what string, x float64) error {
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return fmt.Errorf("%s came out as %g: the solve cannot be trusted (check the job's materials and drive)", what, x)
+		}
+		return nil
+	}
+	for _, c := range s.Result.Coils {
+		if cmplx.IsNaN(c.Current) || cmplx.IsInf(c.Current) || cmplx.IsNaN(c.Voltage) || cmplx.IsInf(c.Voltage) {
+			return fmt.Errorf("coil %q: current or voltage is not finite: the solve cannot be trusted", c.Name)
+		}
+	}
+	for _, p := range s.Result.Parts {
+		if err := bad(fmt.Sprintf("power in part %q", p.Name), p.Power); err != nil {
+			return err
+		}
+		if err := bad(fmt.Sprintf("force on part %q", p.Name), p.ForceZ); err != nil {
+			return err
+		}
+	}
+	return nil
+}
