@@ -12,6 +12,11 @@ import (
 // in a Robin-bounded half disc of radius 10R. The wire polygon has n sides and the area of the true circle.
 // hs is the wanted edge length at the wire surface.
 func wireLoopProblem(t testing.TB, R, a float64, n int, hs float64) *Problem {
+	return tubeLoopProblem(t, R, a, 0, n, hs)
+}
+
+// tubeLoopProblem is wireLoopProblem with an air bore of radius ai (0 for a solid wire).
+func tubeLoopProblem(t testing.TB, R, a, ai float64, n int, hs float64) *Problem {
 	var g mesh.PSLG
 	R0 := 10 * R
 	nArc := 48
@@ -39,7 +44,17 @@ func wireLoopProblem(t testing.TB, R, a float64, n int, hs float64) *Problem {
 		g.Points = append(g.Points, mesh.Point{X: R + ap*math.Cos(th), Y: ap * math.Sin(th)})
 		g.Segments = append(g.Segments, mesh.Segment{A: first + int32(k), B: first + int32((k+1)%n)})
 	}
-	g.Regions = []mesh.RegionSeed{{P: mesh.Point{X: R, Y: 0}, Tag: 2}, {P: mesh.Point{X: R / 2, Y: R}, Tag: 1}}
+	g.Regions = []mesh.RegionSeed{{P: mesh.Point{X: R + (a+ai)/2, Y: 0}, Tag: 2}, {P: mesh.Point{X: R / 2, Y: R}, Tag: 1}}
+	if ai > 0 {
+		api := ai * math.Sqrt(2*math.Pi/(float64(n)*math.Sin(2*math.Pi/float64(n))))
+		first := int32(len(g.Points))
+		for k := range n {
+			th := 2 * math.Pi * float64(k) / float64(n)
+			g.Points = append(g.Points, mesh.Point{X: R + api*math.Cos(th), Y: api * math.Sin(th)})
+			g.Segments = append(g.Segments, mesh.Segment{A: first + int32(k), B: first + int32((k+1)%n)})
+		}
+		g.Regions = append(g.Regions, mesh.RegionSeed{P: mesh.Point{X: R, Y: 0}, Tag: 1})
+	}
 	size := func(p mesh.Point) float64 {
 		d := math.Abs(math.Hypot(p.X-R, p.Y) - a)
 		return min(R0/8, hs+0.25*d)
@@ -100,4 +115,23 @@ func TestWireLoopInductance(t *testing.T) {
 				ldc, c.ldc, l[0], l[1], lhf, c.lhf, sol.Stats.Unknowns)
 		})
 	}
+}
+
+// A single round-tube turn at 1 Hz: R = Re Z equals the ring's DC resistance 1/G within 0.5 %, where
+// G = ∫σ/(2πr) dA = σ[√(R² − ai²) − √(R² − a²)] over the annulus (∫ dA/r over a disc of radius c centred at
+// radius R is 2π(R − √(R² − c²)), an elementary integral).
+func TestRoundTubeTurnDCResistance(t *testing.T) {
+	const R, a, ai, sigma = 0.04, 0.004, 0.003, 5.8e7
+	p := tubeLoopProblem(t, R, a, ai, 128, 3e-4)
+	p.Frequency = 1
+	p.Regions = []Region{{Tag: 2, Name: "tube turn", Kind: SolidTurn, Sigma: sigma, Coil: 0, Sense: 1, Strands: 1}}
+	sol, err := Solve(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := 1 / (sigma * (math.Sqrt(R*R-ai*ai) - math.Sqrt(R*R-a*a)))
+	if got := real(sol.CoilZ[0]); math.Abs(got/want-1) > 5e-3 {
+		t.Errorf("R = %.6e Ω, 1/G = %.6e Ω (rel %.1e)", got, want, got/want-1)
+	}
+	t.Logf("R = %.6e Ω, DC %.6e Ω", real(sol.CoilZ[0]), want)
 }

@@ -68,8 +68,9 @@ const (
 type Problem struct {
 	Mesh      *mesh.Mesh
 	Frequency float64 // Hz, > 0
-	Regions   []Region
-	Coils     []Coil
+	// Regions describe the tagged triangles; triangles whose tag no region lists are air.
+	Regions []Region
+	Coils   []Coil
 	// AppliedBz is an applied uniform axial flux density, rms phasor in tesla (0 for none); it is imposed on the
 	// far boundary as A = Bz·r/2.
 	AppliedBz complex128
