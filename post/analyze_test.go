@@ -28,7 +28,15 @@ func nearC(t *testing.T, name string, got, want complex128, rel float64) {
 // losses to the coil loss; the coil's terminal power is its own loss plus the part's power (energy
 // conservation, physics.md); the thirds add up to the part's power; the skin share is a fraction.
 func TestBookkeeping(t *testing.T) {
-	sol, res := levitator(0.003, -0.006, 0, 0.006).solve(t)
+	stranded := levitator(0.003, -0.006, 0, 0.006)
+	stranded.strands, stranded.rdc, stranded.current = 12, 0.02, 40
+	for name, sc := range map[string]scene{"solid turns": levitator(0.003, -0.006, 0, 0.006), "stranded blocks": stranded} {
+		t.Run(name, func(t *testing.T) { bookkeeping(t, sc) })
+	}
+}
+
+func bookkeeping(t *testing.T, sc scene) {
+	sol, res := sc.solve(t)
 	part := res.Parts[0]
 	near(t, "part power vs fem.RegionPower", part.Power, sol.RegionPower(tagSphere), 1e-12)
 	c := res.Coils[0]

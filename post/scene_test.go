@@ -34,6 +34,8 @@ type scene struct {
 	hf        float64    // element size at conductor surfaces, m
 	grow      float64    // size growth per metre of distance from the nearest surface
 	applied   complex128 // applied uniform Bz, T rms
+	strands   int        // > 0: the turns are stranded blocks of this many turns with Rdc = rdc
+	rdc       float64    // Ω per block
 }
 
 const (
@@ -134,6 +136,10 @@ func (s scene) problem(tb testing.TB) *fem.Problem {
 		// Copper 5.8e7 S/m (annealed-copper standard 1.72e-8 Ω·m, reference §4, common practice).
 		p.Regions = append(p.Regions, fem.Region{Tag: int32(tagTurn0 + k), Name: "turn " + string(rune('A'+k)),
 			Kind: fem.SolidTurn, Sigma: 1 / 1.72e-8, Coil: 0, Sense: s.senses[k], Strands: 1})
+		if s.strands > 0 {
+			r := &p.Regions[len(p.Regions)-1]
+			r.Kind, r.Sigma, r.Strands, r.Rdc = fem.Stranded, 0, s.strands, s.rdc
+		}
 	}
 	return p
 }
