@@ -368,6 +368,61 @@ func (a *Assembler) rule(t int) *QuadRule {
 	return &a.rules.Interior
 }
 
+// integrate computes the element arrays of triangle t into sc (nodes in sc.nd): ke (reluctivity), me
+// (conductivity mass), c (turn coupling ∫σφ dr dz), b (stranded source ∫(N s/area)φ 2πr dr dz) and returns
+// the turn conductance ∫σ/(2πr) dr dz (0 outside solid turns).
+func (a *Assembler) integrate(t int, sc *elemScratch) (gTurn float64) {
+	nl := a.nloc
+	a.nodes(t, sc.nd)
+	ri := a.elemRg[t]
+	var reg Region
+	if ri >= 0 {
+		reg = a.prob.Regions[ri]
+	}
+	eddy := (reg.Kind == SolidTurn || reg.Kind == Part) && reg.Sigma > 0
+	clear(sc.ke)
+	clear(sc.me)
+	clear(sc.c)
+	clear(sc.b)
+	area, gl := triGeom(a.corners(t))
+	p := a.corners(t)
+	nu := a.nu(ri)
+	q := a.rule(t)
+	for g, l := range q.L {
+		r := l[0]*p[0][0] + l[1]*p[1][0] + l[2]*p[2][0]
+		w := q.W[g] * area
+		wr := w * 2 * math.Pi * r
+		a.order.Shape(l, sc.n)
+		a.order.ShapeGrad(l, gl, sc.dr, sc.dz)
+		for i := range nl {
+			bi := sc.dr[i] + sc.n[i]/r
+			for j := range nl {
+				sc.ke[i*nl+j] += nu * wr * (sc.dz[i]*sc.dz[j] + bi*(sc.dr[j]+sc.n[j]/r))
+			}
+		}
+		if eddy {
+			for i := range nl {
+				for j := range nl {
+					sc.me[i*nl+j] += reg.Sigma * wr * sc.n[i] * sc.n[j]
+				}
+			}
+		}
+		if reg.Kind == SolidTurn {
+			for i := range nl {
+				sc.c[i] += reg.Sigma * w * sc.n[i]
+			}
+			gTurn += reg.Sigma * w / (2 * math.Pi * r)
+		}
+		if reg.Kind == Stranded {
+			js := float64(reg.Strands*reg.Sense) / a.areas[ri]
+			for i := range nl {
+				sc.b[i] += js * wr * sc.n[i]
+			}
+		}
+	}
+	return gTurn
+}
+
 // triangle emits the entries of triangle t. In the pattern pass it only emits positions (values are zero).
 func (a *Assembler) triangle(t int, s sink, sc *elemScratch, pattern bool) {
 	nl := a.nloc
@@ -377,49 +432,14 @@ func (a *Assembler) triangle(t int, s sink, sc *elemScratch, pattern bool) {
 	if ri >= 0 {
 		reg = a.prob.Regions[ri]
 	}
-	eddy := (reg.Kind == SolidTurn || reg.Kind == Part) && reg.Sigma > 0
 	var gTurn float64
-	clear(sc.ke)
-	clear(sc.me)
-	clear(sc.c)
-	clear(sc.b)
-	if !pattern {
-		area, gl := triGeom(a.corners(t))
-		p := a.corners(t)
-		nu := a.nu(ri)
-		q := a.rule(t)
-		for g, l := range q.L {
-			r := l[0]*p[0][0] + l[1]*p[1][0] + l[2]*p[2][0]
-			w := q.W[g] * area
-			wr := w * 2 * math.Pi * r
-			a.order.Shape(l, sc.n)
-			a.order.ShapeGrad(l, gl, sc.dr, sc.dz)
-			for i := range nl {
-				bi := sc.dr[i] + sc.n[i]/r
-				for j := range nl {
-					sc.ke[i*nl+j] += nu * wr * (sc.dz[i]*sc.dz[j] + bi*(sc.dr[j]+sc.n[j]/r))
-				}
-			}
-			if eddy {
-				for i := range nl {
-					for j := range nl {
-						sc.me[i*nl+j] += reg.Sigma * wr * sc.n[i] * sc.n[j]
-					}
-				}
-			}
-			if reg.Kind == SolidTurn {
-				for i := range nl {
-					sc.c[i] += reg.Sigma * w * sc.n[i]
-				}
-				gTurn += reg.Sigma * w / (2 * math.Pi * r)
-			}
-			if reg.Kind == Stranded {
-				js := float64(reg.Strands*reg.Sense) / a.areas[ri]
-				for i := range nl {
-					sc.b[i] += js * wr * sc.n[i]
-				}
-			}
-		}
+	if pattern {
+		clear(sc.ke)
+		clear(sc.me)
+		clear(sc.c)
+		clear(sc.b)
+	} else {
+		gTurn = a.integrate(t, sc)
 	}
 	for i := range nl {
 		ei := a.eq[sc.nd[i]]

@@ -82,6 +82,9 @@ func TestCylinderKelvin(t *testing.T) {
 			if math.Abs(got/want-1) > 2e-3 {
 				t.Errorf("P′ = %.7g W/m, Kelvin %.7g (rel %.2e)", got, want, got/want-1)
 			}
+			if e := sol.BalanceError(); !(e < 1e-8) {
+				t.Errorf("energy balance error %.3g (power through the boundary vs Joule and field energy)", e)
+			}
 			js := cmplx.Abs(jx(a))
 			var worst float64
 			sol.EachPoint(func(qp QuadPoint) {

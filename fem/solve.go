@@ -3,6 +3,7 @@ package fem
 import (
 	"fmt"
 	"math"
+	"math/cmplx"
 	"slices"
 	"sync"
 	"time"
@@ -112,6 +113,8 @@ type Solution struct {
 	axis   []bool
 	rules  Rules
 	sys    *sparse.Matrix
+	// complex power that enters through the outer boundary with the applied field, W
+	boundarySupply complex128
 	// point location for At, built on first use
 	locOnce sync.Once
 	loc     *mesh.Locator
@@ -162,6 +165,7 @@ func (a *Assembler) solution(f float64, m *sparse.Matrix, b, x []complex128, st 
 		js := float64(r.Strands*r.Sense) / s.areas[q.Region]
 		s.CoilV[r.Coil] += jw * complex(js*q.Weight, 0) * q.A
 	})
+	s.boundarySupply = a.boundarySupply(2*math.Pi*f, s)
 	for ci, c := range p.Coils {
 		if c.Drive == VoltageDrive {
 			s.CoilV[ci] = c.Value
@@ -171,4 +175,77 @@ func (a *Assembler) solution(f float64, m *sparse.Matrix, b, x []complex128, st 
 		}
 	}
 	return s
+}
+
+// boundarySupply is the complex power the applied field delivers through the outer boundary. Testing the
+// unreduced equations with the conjugate solution gives S = P + j2ωW_m = Σ_coils V I* + jω Σ_prescribed g_i R̄_i
+// + jω Σ_i A_i f̄_i, where R_i is the residual of prescribed node i's equation (the boundary's reaction) and
+// f the Robin boundary's applied-field source.
+func (a *Assembler) boundarySupply(w float64, s *Solution) complex128 {
+	if a.prob.AppliedBz == 0 {
+		return 0
+	}
+	jw := complex(0, w)
+	var sup complex128
+	sc := newScratch(a.nloc)
+	nl := a.nloc
+	for t := range a.prob.Mesh.Tris {
+		touches := false
+		for _, v := range a.prob.Mesh.Tris[t] {
+			touches = touches || (a.eq[v] < 0 && a.fixed[v] != 0)
+		}
+		if a.order == 2 {
+			for _, v := range a.prob.Mesh.Mid[t] {
+				touches = touches || (a.eq[v] < 0 && a.fixed[v] != 0)
+			}
+		}
+		if !touches {
+			continue
+		}
+		a.integrate(t, sc)
+		ri := a.elemRg[t]
+		for i := range nl {
+			vi := sc.nd[i]
+			if a.eq[vi] >= 0 || a.fixed[vi] == 0 {
+				continue
+			}
+			var r complex128
+			for j := range nl {
+				r += complex(sc.ke[i*nl+j], w*sc.me[i*nl+j]) * s.A[sc.nd[j]]
+			}
+			if ri >= 0 {
+				switch reg := a.prob.Regions[ri]; reg.Kind {
+				case SolidTurn:
+					r -= complex(sc.c[i], 0) * s.TurnU[ri]
+				case Stranded:
+					r -= complex(sc.b[i], 0) * s.CoilI[reg.Coil]
+				}
+			}
+			sup += jw * a.fixed[vi] * cmplx.Conj(r)
+		}
+	}
+	if a.prob.Outer.Robin {
+		m := a.prob.Mesh
+		R := a.prob.Outer.Radius
+		sh := make([]float64, 3)
+		for _, e := range m.Edges {
+			if e.Tag != OuterTag {
+				continue
+			}
+			nd := []int32{e.A, e.B, e.M}
+			pa, pb := m.Nodes[e.A], m.Nodes[e.B]
+			length := math.Hypot(pb.X-pa.X, pb.Y-pa.Y)
+			for g, t := range gauss5.X {
+				edgeShape(a.order, t, sh)
+				av := s.A[nd[0]]*complex(sh[0], 0) + s.A[nd[1]]*complex(sh[1], 0)
+				if a.order == 2 {
+					av += s.A[nd[2]] * complex(sh[2], 0)
+				}
+				r := pa.X + t*(pb.X-pa.X)
+				f := 1.5 / Mu0 * (r / R) * gauss5.W[g] * length * 2 * math.Pi * r
+				sup += jw * av * cmplx.Conj(complex(f, 0)*a.prob.AppliedBz)
+			}
+		}
+	}
+	return sup
 }

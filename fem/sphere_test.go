@@ -83,6 +83,9 @@ func TestSphereInUniformField(t *testing.T) {
 			if math.Abs(pw/want-1) > 5e-3 {
 				t.Errorf("P = %.6g W, closed form %.6g (rel %.2e)", pw, want, pw/want-1)
 			}
+			if e := sol.BalanceError(); !(e < 1e-8) {
+				t.Errorf("energy balance error %.3g (power through the boundary vs Joule and field energy)", e)
+			}
 			// m = ½∫ r × J dV, z component: ½∫ r J_φ 2πr dr dz.
 			var m complex128
 			sol.EachPoint(func(qp QuadPoint) { m += complex(qp.R*qp.Weight/2, 0) * qp.J })
