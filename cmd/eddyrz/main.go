@@ -7,6 +7,9 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"strings"
+
+	"github.com/spf13/cobra"
 
 	"eddyrz/fem/sparse"
 	"eddyrz/geometry"
@@ -32,7 +35,13 @@ func run(args []string, stdout, stderr io.Writer) int {
 	if err == nil {
 		return exitOK
 	}
-	fmt.Fprintln(stderr, "eddyrz:", err)
+	// A job-file mistake prints as its own line, file:line: key: what is wrong (how to fix).
+	var in *geometry.InputError
+	if errors.As(err, &in) {
+		fmt.Fprintln(stderr, in.Error())
+	} else {
+		fmt.Fprintln(stderr, "eddyrz:", err)
+	}
 	return exitCode(err)
 }
 
@@ -42,12 +51,22 @@ func exitCode(err error) int {
 	var fl *flagError
 	var sing *sparse.SingularError
 	switch {
-	case errors.As(err, &in), errors.As(err, &fl):
+	case errors.As(err, &in), errors.As(err, &fl), strings.HasPrefix(err.Error(), "unknown command"):
 		return exitInput
 	case errors.As(err, &sing):
 		return exitNumerical
 	default:
 		return exitFailure
+	}
+}
+
+// exactArgs is cobra.ExactArgs with the error marked as a usage error.
+func exactArgs(n int) cobra.PositionalArgs {
+	return func(c *cobra.Command, args []string) error {
+		if err := cobra.ExactArgs(n)(c, args); err != nil {
+			return &flagError{fmt.Errorf("%w (see %s --help)", err, c.CommandPath())}
+		}
+		return nil
 	}
 }
 

@@ -33,7 +33,7 @@ aspect ratio. A picture of the mesh (regions coloured, axes in mm) is written as
 into --out.`,
 		Example: `  eddyrz mesh examples/levitation-slug.toml
   eddyrz mesh examples/billet-heater.toml --json --out out/billet`,
-		Args: cobra.ExactArgs(1),
+		Args: exactArgs(1),
 		RunE: func(c *cobra.Command, args []string) error {
 			o.job = args[0]
 			return runMesh(o)

@@ -42,7 +42,7 @@ Nothing is written when the job fails.`,
   eddyrz solve examples/billet-heater.toml --json > billet.json
   eddyrz solve examples/crucible-melt.toml --vtk --linear-scale
   eddyrz solve examples/billet-heater.toml --export-matrix out/matrix`,
-		Args: cobra.ExactArgs(1),
+		Args: exactArgs(1),
 		RunE: func(c *cobra.Command, args []string) error {
 			o.job = args[0]
 			return runSolve(o)
