@@ -8,6 +8,7 @@ import (
 	"path/filepath"
 	"slices"
 	"strings"
+	"sync"
 	"testing"
 
 	"gonum.org/v1/gonum/mathext"
@@ -456,6 +457,35 @@ func TestParallelAssemblyMatchesSerial(t *testing.T) {
 	for i := range r1 {
 		if cmplx.Abs(r1[i]-a.r0[i]) > 1e-12*math.Max(1, cmplx.Abs(r1[i])) {
 			t.Fatalf("rhs %d: serial %g, parallel %g", i, r1[i], a.r0[i])
+		}
+	}
+}
+
+// Solving the same Problem from several goroutines gives identical answers (a solve is a value).
+func TestConcurrentSolves(t *testing.T) {
+	p := twoTurnCoil(VoltageDrive, 7)
+	p.Frequency = 2000
+	want, err := Solve(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	got := make([]*Solution, 3)
+	var wg sync.WaitGroup
+	for k := range got {
+		wg.Go(func() {
+			s, err := Solve(p)
+			if err != nil {
+				t.Error(err)
+				return
+			}
+			s.At(0.032, 0.001)
+			got[k] = s
+		})
+	}
+	wg.Wait()
+	for _, s := range got {
+		if s != nil && s.CoilZ[0] != want.CoilZ[0] {
+			t.Errorf("concurrent solve Z %v, serial %v", s.CoilZ[0], want.CoilZ[0])
 		}
 	}
 }
