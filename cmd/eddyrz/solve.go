@@ -102,11 +102,12 @@ func addSolveFiles(out *outputs, s *study.Solution, rep *post.Report, o *solveOp
 	if err != nil {
 		return err
 	}
+	w, h := s.FigureSize(18)
 	for _, ext := range []string{"png", "svg", "pdf"} {
-		out.add("power."+ext, func(p string) error { return plot.Save(joule, p, 18, 16) })
+		out.add("power."+ext, func(p string) error { return plot.Save(joule, p, w, h) })
 	}
 	for _, ext := range []string{"png", "svg"} {
-		out.add("flux."+ext, func(p string) error { return plot.Save(flux, p, 18, 16) })
+		out.add("flux."+ext, func(p string) error { return plot.Save(flux, p, w, h) })
 	}
 	if o.writeVTK {
 		cf := s.Cells()

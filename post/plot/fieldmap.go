@@ -177,14 +177,14 @@ func FieldMap(m *mesh.Mesh, spec FieldSpec) (*Figure, error) {
 		if err != nil {
 			return nil, fmt.Errorf("plot: field map: flux lines: %w", err)
 		}
-		fl := &polylines{style: draw.LineStyle{Color: color.NRGBA{R: 20, G: 20, B: 28, A: 200}, Width: vg.Points(0.6)}}
+		fl := &polylines{style: draw.LineStyle{Color: color.NRGBA{R: 150, G: 205, B: 225, A: 230}, Width: vg.Points(0.7)}}
 		for _, l := range iso {
 			fl.add(l.Lines)
 		}
 		fig.Plot.Add(fl)
 	}
 	if len(spec.Outlines) > 0 {
-		ol := &polylines{style: draw.LineStyle{Color: color.Black, Width: vg.Points(1.1)}}
+		ol := &polylines{style: draw.LineStyle{Color: color.NRGBA{R: 245, G: 245, B: 245, A: 255}, Width: vg.Points(1.0)}}
 		ol.add(spec.Outlines)
 		fig.Plot.Add(ol)
 	}

@@ -114,6 +114,18 @@ func (s *Solution) Figures(opt FigureOptions) (joule, flux *plot.Figure, err err
 	return joule, flux, nil
 }
 
+// FigureSize returns a page size in centimetres, widthCm wide, whose height fits the default view's aspect
+// ratio (r and z share one scale), with room for the title and colour bar.
+func (s *Solution) FigureSize(widthCm float64) (w, h float64) {
+	v := s.Model.conductorWindow(0.25)
+	if v == nil || v.RMax <= v.RMin {
+		return widthCm, widthCm
+	}
+	aspect := (v.ZMax - v.ZMin) / (v.RMax - v.RMin)
+	h = 0.8*widthCm*aspect + 3
+	return widthCm, math.Min(math.Max(h, 0.5*widthCm), 2.5*widthCm)
+}
+
 // conductorWindow is the bounding box of every conductor region of the model's mesh, grown by margin times its
 // size on each side and starting at r = 0.
 func (md *Model) conductorWindow(margin float64) *plot.Window {
@@ -132,10 +144,11 @@ func (md *Model) conductorWindow(margin float64) *plot.Window {
 	if math.IsInf(w.RMax, 0) {
 		return nil
 	}
-	size := math.Max(w.RMax, w.ZMax-w.ZMin)
-	w.RMax += margin * size
-	w.ZMin -= margin * size
-	w.ZMax += margin * size
+	// Grow each axis by its own extent, so a tall part does not widen the picture.
+	h := w.ZMax - w.ZMin
+	w.RMax *= 1 + margin
+	w.ZMin -= margin * h
+	w.ZMax += margin * h
 	return &w
 }
 
