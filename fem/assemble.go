@@ -124,6 +124,21 @@ func validate(p *Problem) error {
 	if p.Outer.Robin && !(p.Outer.Radius > 0) {
 		return fmt.Errorf("Robin outer boundary needs a positive radius, got %g m", p.Outer.Radius)
 	}
+	if p.Outer.Robin {
+		// The Robin term assumes the boundary is the stated circle; a mismatch would silently bias every answer.
+		for _, e := range p.Mesh.Edges {
+			if e.Tag != OuterTag {
+				continue
+			}
+			for _, v := range []int32{e.A, e.B} {
+				q := p.Mesh.Nodes[v]
+				if d := math.Hypot(q.X, q.Y-p.Outer.CenterZ); math.Abs(d-p.Outer.Radius) > 1e-6*p.Outer.Radius {
+					return fmt.Errorf("outer boundary node at (%g, %g) m is %g m from (0, %g), not on the Robin circle of radius %g m",
+						q.X, q.Y, d, p.Outer.CenterZ, p.Outer.Radius)
+				}
+			}
+		}
+	}
 	used := make([]bool, len(p.Coils))
 	for _, r := range p.Regions {
 		if err := checkRegion(r, len(p.Coils)); err != nil {

@@ -354,6 +354,7 @@ func TestProblemErrors(t *testing.T) {
 		{"bad coil index", func(p *Problem) { p.Regions[0].Coil = 7 }, "coil index"},
 		{"coil without turns", func(p *Problem) { p.Coils = append(p.Coils, Coil{Name: "spare"}) }, `"spare"`},
 		{"robin without radius", func(p *Problem) { p.Outer.Robin = true }, "radius"},
+		{"robin circle mismatch", func(p *Problem) { p.Outer = OuterBoundary{Robin: true, Radius: 0.3} }, "not on the Robin circle"},
 		{"no mesh", func(p *Problem) { p.Mesh = nil }, "no mesh"},
 	}
 	for _, c := range cases {
