@@ -109,6 +109,8 @@ type PartResult struct {
 	// Thirds is the power in the bottom, middle and top thirds of the part's z extent, W (by quadrature point).
 	Thirds     [3]float64
 	ZMin, ZMax float64 // the part's z extent, m
+	// MuR is the part's relative permeability as solved (a linear, effective value).
+	MuR float64
 }
 
 // Analyze derives the designer's quantities from sol. It returns an error when sol has no mesh or fields.
@@ -145,7 +147,7 @@ func Analyze(sol *fem.Solution, opt Options) (*Result, error) {
 		}
 		pw := &partWork{ri: ri, o: mi.newOutline(ri), delta: skinDepth(w, r.Sigma, r.MuR)}
 		pr := PartResult{Name: r.Name, ForceZStress: math.NaN(), StressDiff: math.NaN(), SkinDepth: pw.delta,
-			ZMin: pw.o.lo.Y, ZMax: pw.o.hi.Y, PeakR: math.NaN(), PeakZ: math.NaN()}
+			ZMin: pw.o.lo.Y, ZMax: pw.o.hi.Y, PeakR: math.NaN(), PeakZ: math.NaN(), MuR: r.MuR}
 		if len(pw.o.elems) == 0 {
 			pr.StressNote = "part has no triangles in the mesh"
 		} else if opt.SkipStress {
@@ -154,6 +156,12 @@ func Analyze(sol *fem.Solution, opt Options) (*Result, error) {
 			var note string
 			pw.sh, note = mi.newShell(ri, pw.o)
 			pr.StressNote = note
+			if pw.sh != nil && r.MuR > 1 {
+				// The stress in the air is the whole force on the body; the Lorentz volume integral leaves out the
+				// pull on its magnetisation, so on a magnetic part the two differ by physics, not by error.
+				pr.StressNote = fmt.Sprintf("magnetic part (μr = %g): the stress-tensor value includes the force on "+
+					"its magnetisation, which the Lorentz volume integral leaves out; use the stress-tensor value", r.MuR)
+			}
 			if pw.sh != nil {
 				pr.ShellInner, pr.ShellOuter = pw.sh.inner, pw.sh.outer
 				pr.ForceZStress = 0

@@ -59,6 +59,8 @@ type Report struct {
 	StoredEnergy Num          `json:"stored_energy_j"`
 	Timing       TimingReport `json:"timing_s"`
 	Cautions     []string     `json:"cautions"`
+	// Notes qualify the results (approximations in the model), one sentence each.
+	Notes []string `json:"notes"`
 }
 
 // MeshReport gives the problem's size.
@@ -148,6 +150,7 @@ func (r *Result) Report() *Report {
 			Analyze: Num(r.Timing.Analyze.Seconds()), Total: Num(r.Timing.Total().Seconds()),
 		},
 		Cautions: slices.Clone(cautions[:]),
+		Notes:    []string{},
 		Coils:    []CoilReport{},
 		Parts:    []PartReport{},
 	}
@@ -168,6 +171,10 @@ func (r *Result) Report() *Report {
 		rep.Coils = append(rep.Coils, cr)
 	}
 	for _, p := range r.Parts {
+		if p.MuR > 1 {
+			rep.Notes = append(rep.Notes, fmt.Sprintf("part %q is solved with a linear effective permeability μr = %g: "+
+				"an approximation of a saturable magnetic material", p.Name, p.MuR))
+		}
 		rep.Parts = append(rep.Parts, PartReport{
 			Name: p.Name, Power: Num(p.Power), ForceZ: Num(p.ForceZ), ForceZStress: Num(p.ForceZStress),
 			StressDiff: Num(p.StressDiff), StressShell: [2]Num{Num(p.ShellInner), Num(p.ShellOuter)},
@@ -220,6 +227,9 @@ func (rep *Report) WriteText(w io.Writer) error {
 		p("part %q\t", q.Name)
 		p("  power\t%s W", gnum(q.Power))
 		p("  axial force\t%s N (stress check %s N, rel. diff. %s)", gnum(q.ForceZ), gnum(q.ForceZStress), gnum(q.StressDiff))
+		if q.StressNote != "" {
+			p("  stress check note\t%s", q.StressNote)
+		}
 		p("  peak power density\t%s W/m³ at r = %s m, z = %s m", gnum(q.PeakDensity), gnum(q.PeakAt[0]), gnum(q.PeakAt[1]))
 		p("  within one skin depth\t%s of the power (δ = %s m)", gnum(q.SkinShare), gnum(q.SkinDepth))
 		p("  bottom, middle, top third\t%s W, %s W, %s W", gnum(q.PowerThirds.Bottom), gnum(q.PowerThirds.Middle), gnum(q.PowerThirds.Top))
@@ -229,6 +239,9 @@ func (rep *Report) WriteText(w io.Writer) error {
 	p("energy balance error\t%s", gnum(rep.BalanceError))
 	p("time\t%s s total", gnum(rep.Timing.Total))
 	p("(currents and voltages are rms; powers and forces are time averages)")
+	for _, n := range rep.Notes {
+		p("note: %s", n)
+	}
 	for _, s := range rep.Cautions {
 		p("caution: %s", s)
 	}
