@@ -8,15 +8,9 @@ import (
 	"eddyrz/mesh"
 )
 
-// FromLayout meshes a job's layout (mesh.Triangulate with the layout's size field and minimum angle, quadratic
-// when the layout asks for order 2) and returns the harmonic problem at the job's frequency, with a Robin outer
-// boundary on the layout's far semicircle.
-//
-// Materials are evaluated at each region's temperature: σ = 1/ρ(T), μr(T). A stranded block's DC resistance is
-// Rdc = N² ρ 2π r̄ /(F A), with r̄ its centroid radius and A its meshed area (uniform current in a fraction F
-// of the area, N series turns). A power-driven coil becomes a 1 A current drive: the fields are linear in the
-// current, so the caller scales the solution by √(P_wanted / P_at_1A).
-func FromLayout(job *geometry.Job, lay *geometry.Layout) (*Problem, error) {
+// Mesh triangulates a job's layout with the layout's size field and minimum angle, quadratic when the layout
+// asks for order 2.
+func Mesh(job *geometry.Job, lay *geometry.Layout) (*mesh.Mesh, error) {
 	m, err := mesh.Triangulate(lay.PSLG, mesh.Options{Size: lay.Size, MinAngle: lay.MinAngle})
 	if err != nil {
 		return nil, fmt.Errorf("meshing %s: %w", job.File, err)
@@ -24,6 +18,17 @@ func FromLayout(job *geometry.Job, lay *geometry.Layout) (*Problem, error) {
 	if lay.Order == 2 {
 		m.MakeQuadratic()
 	}
+	return m, nil
+}
+
+// FromLayout returns the harmonic problem of a job on m, a mesh of its layout (see Mesh), at the job's
+// frequency, with a Robin outer boundary on the layout's far semicircle.
+//
+// Materials are evaluated at each region's temperature: σ = 1/ρ(T), μr(T). A stranded block's DC resistance is
+// Rdc = N² ρ 2π r̄ /(F A), with r̄ its centroid radius and A its meshed area (uniform current in a fraction F
+// of the area, N series turns). A power-driven coil becomes a 1 A current drive: the fields are linear in the
+// current, so the caller scales the solution by √(P_wanted / P_at_1A).
+func FromLayout(job *geometry.Job, lay *geometry.Layout, m *mesh.Mesh) (*Problem, error) {
 	p := &Problem{
 		Mesh: m, Frequency: job.Frequency, AppliedBz: complex(job.AppliedB, 0),
 		Outer: OuterBoundary{Robin: true, CenterZ: lay.Outer.CenterZ, Radius: lay.Outer.Radius},

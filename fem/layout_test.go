@@ -15,7 +15,11 @@ func layoutProblem(t *testing.T, job *geometry.Job) *Problem {
 	if err != nil {
 		t.Fatal(err)
 	}
-	p, err := FromLayout(job, lay)
+	m, err := Mesh(job, lay)
+	if err != nil {
+		t.Fatal(err)
+	}
+	p, err := FromLayout(job, lay, m)
 	if err != nil {
 		t.Fatal(err)
 	}
