@@ -257,7 +257,8 @@ func TestSizeField(t *testing.T) {
 			}
 		}
 	}
-	// A lone sphere: on its surface h = min(δ/3, a/4); a distance d outside h = that + 0.3·d.
+	// A lone sphere: on its surface h = min(δ/n, a/4) with n the default elements per skin depth; a distance d
+	// outside h = that + 0.3·d.
 	src := `frequency = "10 kHz"
 applied_field = "1 mT"
 [[part]]
@@ -280,7 +281,7 @@ material = "copper"
 	if math.Abs(d-0.652e-3) > 0.005e-3 {
 		t.Errorf("copper skin depth at 10 kHz %g", d)
 	}
-	hs := d / 3
+	hs := d / DefaultMeshControls().PerSkinDepth
 	for _, c := range []struct {
 		p    mesh.Point
 		want float64
