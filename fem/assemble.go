@@ -48,6 +48,8 @@ type Assembler struct {
 	edgeStart  int   // first slot-map index of the outer-edge entries
 	kv, mv, qv []float64
 	r0, r1, r2 []complex128
+	// per-triangle σ (S/m) and μr, nil or NaN where the region's value holds (elementwise.go)
+	elemSigma, elemMur []float64
 }
 
 // NewAssembler validates p, numbers the unknowns, builds the pattern and assembles the values.
@@ -392,7 +394,7 @@ func (a *Assembler) integrate(t int, sc *elemScratch) (gTurn float64) {
 	ri := a.elemRg[t]
 	var reg Region
 	if ri >= 0 {
-		reg = a.prob.Regions[ri]
+		reg = a.regionAt(t, ri)
 	}
 	eddy := (reg.Kind == SolidTurn || reg.Kind == Part) && reg.Sigma > 0
 	clear(sc.ke)
@@ -401,7 +403,7 @@ func (a *Assembler) integrate(t int, sc *elemScratch) (gTurn float64) {
 	clear(sc.b)
 	area, gl := triGeom(a.corners(t))
 	p := a.corners(t)
-	nu := a.nu(ri)
+	nu := reluctivity(reg.MuR)
 	q := a.rule(t)
 	for g, l := range q.L {
 		r := l[0]*p[0][0] + l[1]*p[1][0] + l[2]*p[2][0]

@@ -24,6 +24,10 @@ type QuadPoint struct {
 	A      complex128 // Wb/m rms
 	J      complex128 // azimuthal current density, A/m² rms
 	Br, Bz complex128 // T rms
+
+	// Sigma (S/m) and MuR are the conductivity and relative permeability in force in the triangle: its region's,
+	// or the element values of Solver.SetElementMaterials (MuR 1 where the region leaves it 0 or in untagged air).
+	Sigma, MuR float64
 }
 
 // EachPoint calls fn for every quadrature point of every triangle, in triangle order. The rule is the one the
@@ -53,10 +57,15 @@ func (s *Solution) EachPoint(fn func(QuadPoint)) {
 		}
 		area, gl := triGeom(p)
 		ri := s.elemRg[t]
+		reg := s.regionAt(t, ri)
+		mur := reg.MuR
+		if mur <= 0 {
+			mur = 1
+		}
 		for g, l := range q.L {
 			s.Order.Shape(l, sh)
 			s.Order.ShapeGrad(l, gl, dr, dz)
-			qp := QuadPoint{Elem: t, Tag: m.Tags[t], Region: ri}
+			qp := QuadPoint{Elem: t, Tag: m.Tags[t], Region: ri, Sigma: reg.Sigma, MuR: mur}
 			qp.R = l[0]*p[0][0] + l[1]*p[1][0] + l[2]*p[2][0]
 			qp.Z = l[0]*p[0][1] + l[1]*p[1][1] + l[2]*p[2][1]
 			qp.Weight = q.W[g] * area * 2 * math.Pi * qp.R
@@ -69,18 +78,18 @@ func (s *Solution) EachPoint(fn func(QuadPoint)) {
 			}
 			qp.Br = -dAz
 			qp.Bz = dAr + qp.A/complex(qp.R, 0)
-			qp.J = s.currentDensity(ri, qp.R, qp.A, w)
+			qp.J = s.currentDensity(t, ri, qp.R, qp.A, w)
 			fn(qp)
 		}
 	}
 }
 
-// currentDensity is J in region ri at radius r with potential a (physics.md, Conductors).
-func (s *Solution) currentDensity(ri int, r float64, a complex128, w float64) complex128 {
+// currentDensity is J in triangle t of region ri at radius r with potential a (physics.md, Conductors).
+func (s *Solution) currentDensity(t, ri int, r float64, a complex128, w float64) complex128 {
 	if ri < 0 {
 		return 0
 	}
-	reg := s.Regions[ri]
+	reg := s.regionAt(t, ri)
 	switch reg.Kind {
 	case SolidTurn:
 		return complex(0, -w*reg.Sigma)*a + complex(reg.Sigma/(2*math.Pi*r), 0)*s.TurnU[ri]
@@ -105,9 +114,8 @@ func (s *Solution) RegionPower(tag int32) float64 {
 		if q.Tag != tag || q.Region < 0 {
 			return
 		}
-		r := s.Regions[q.Region]
-		if r.Kind != Stranded && r.Sigma > 0 {
-			p += sq(cmplx.Abs(q.J)) / r.Sigma * q.Weight
+		if s.Regions[q.Region].Kind != Stranded && q.Sigma > 0 {
+			p += sq(cmplx.Abs(q.J)) / q.Sigma * q.Weight
 		}
 	})
 	return p
@@ -128,11 +136,7 @@ func (s *Solution) MagneticEnergy() float64 {
 func (s *Solution) interiorEnergy() float64 {
 	var e float64
 	s.EachPoint(func(q QuadPoint) {
-		mur := 1.0
-		if q.Region >= 0 && s.Regions[q.Region].MuR > 0 {
-			mur = s.Regions[q.Region].MuR
-		}
-		e += (sq(cmplx.Abs(q.Br)) + sq(cmplx.Abs(q.Bz))) / (2 * Mu0 * mur) * q.Weight
+		e += (sq(cmplx.Abs(q.Br)) + sq(cmplx.Abs(q.Bz))) / (2 * Mu0 * q.MuR) * q.Weight
 	})
 	return e
 }
@@ -234,7 +238,7 @@ func (s *Solution) At(r, z float64) (v FieldValue, ok bool) {
 	v.Br = -dAz
 	if r > 0 {
 		v.Bz = dAr + v.A/complex(r, 0)
-		v.J = s.currentDensity(s.elemRg[t], r, v.A, 2*math.Pi*s.Frequency)
+		v.J = s.currentDensity(t, s.elemRg[t], r, v.A, 2*math.Pi*s.Frequency)
 	} else {
 		v.Bz = 2 * dAr // A = 0 on the axis, so A/r → ∂A/∂r there
 	}

@@ -119,6 +119,9 @@ type Solution struct {
 	locOnce sync.Once
 	loc     *mesh.Locator
 	rhs     []complex128
+
+	// per-triangle σ and μr the system was assembled with (see elementwise.go); nil where regions hold
+	elemSigma, elemMur []float64
 }
 
 func (a *Assembler) solution(f float64, m *sparse.Matrix, b, x []complex128, st Stats) *Solution {
@@ -128,7 +131,7 @@ func (a *Assembler) solution(f float64, m *sparse.Matrix, b, x []complex128, st 
 		A: make([]complex128, len(p.Mesh.Nodes)), TurnU: make([]complex128, len(p.Regions)),
 		TurnI: make([]complex128, len(p.Regions)), CoilI: make([]complex128, len(p.Coils)),
 		CoilV: make([]complex128, len(p.Coils)), CoilZ: make([]complex128, len(p.Coils)),
-		AppliedBz: p.AppliedBz, Outer: p.Outer, Stats: st, elemRg: a.elemRg, areas: a.areas, axis: a.axis, rules: a.rules,
+		AppliedBz: p.AppliedBz, Outer: p.Outer, Stats: st, elemRg: a.elemRg, elemSigma: a.elemSigma, elemMur: a.elemMur, areas: a.areas, axis: a.axis, rules: a.rules,
 		sys: m, rhs: b,
 	}
 	for i, e := range a.eq {
