@@ -3,7 +3,10 @@ package sparse
 import (
 	"fmt"
 	"math"
+	"runtime"
 	"slices"
+	"sync"
+	"sync/atomic"
 )
 
 // PivotTolerance: a pivot d_j with |d_j| ≤ PivotTolerance·max_i |A_ij| (over the full symmetric column j of the
@@ -29,8 +32,15 @@ const (
 	rowTile    = 256
 )
 
-// Factor computes the numeric factorisation of a, which must have exactly the pattern that was analysed.
+// Factor computes the numeric factorisation of a, which must have exactly the pattern that was analysed. It
+// spreads independent subtrees and large dense updates over runtime.GOMAXPROCS(0) goroutines; the result does
+// not depend on the number of goroutines (every entry is computed by the same operations in the same order).
 func (s *Symbolic) Factor(a *Matrix) (*Factor, error) {
+	return s.factor(a, runtime.GOMAXPROCS(0))
+}
+
+// factor is Factor with an explicit number of goroutines (≥ 1).
+func (s *Symbolic) factor(a *Matrix, procs int) (*Factor, error) {
 	if a == nil || a.N != s.n || len(a.ColPtr) != s.n+1 || !slices.Equal(a.ColPtr, s.colPtr) ||
 		len(a.RowIdx) < len(s.rowIdx) || !slices.Equal(a.RowIdx[:len(s.rowIdx)], s.rowIdx) || len(a.Val) < len(s.rowIdx) {
 		return nil, fmt.Errorf("sparse: Factor: matrix pattern differs from the analysed one")
@@ -56,66 +66,152 @@ func (s *Symbolic) Factor(a *Matrix) (*Factor, error) {
 	lx := make([]complex128, s.lOff[len(s.lOff)-1])
 	adviseHuge(lx)
 	f.lx = lx
+	ctx := &factorCtx{s: s, f: f, scale: scale}
 
-	stack := make([]complex128, s.stats.StackPeak)
-	adviseHuge(stack)
-	work := make([]complex128, s.maxWork)
-	pos := make([]int32, n)
-	type block struct{ sn, off int }
-	var blocks []block
-	top := 0
+	// Independent subtrees first, pulled by up to procs goroutines; each keeps its root's update matrix.
+	roots := make([][]complex128, len(s.tasks))
+	failed := make([]error, len(s.tasks))
+	nw := max(1, min(procs, len(s.tasks)))
+	var next atomic.Int32
+	var wg sync.WaitGroup
+	for w := 0; w < nw; w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			fw := ctx.newWorker(s.taskPeak, 1)
+			for {
+				t := int(next.Add(1)) - 1
+				if t >= len(s.tasks) {
+					return
+				}
+				lo, hi := int(s.tasks[t][0]), int(s.tasks[t][1])
+				fw.reset()
+				for sn := lo; sn <= hi; sn++ {
+					if err := fw.front(sn); err != nil {
+						failed[t] = err
+						break
+					}
+				}
+				if failed[t] == nil && len(fw.blocks) == 1 {
+					roots[t] = slices.Clone(fw.blocks[0].cb)
+				}
+			}
+		}()
+	}
+	wg.Wait()
+	bad := -1 // report the failure of the earliest subtree, as a serial factorisation would
+	for t, err := range failed {
+		if err != nil && (bad < 0 || s.tasks[t][0] < s.tasks[bad][0]) {
+			bad = t
+		}
+	}
+	if bad >= 0 {
+		return nil, failed[bad]
+	}
+	// The top part, in postorder, with the task roots' update matrices slotted in where their subtrees end.
+	fw := ctx.newWorker(s.topPeak, procs)
 	ns := len(s.first) - 1
 	for sn := 0; sn < ns; sn++ {
-		k := int(s.first[sn+1] - s.first[sn])
-		rows := s.rows[s.rowPtr[sn]:s.rowPtr[sn+1]]
-		m := len(rows)
-		m2 := m - k
-		L := lx[s.lOff[sn]:s.lOff[sn+1]]
-		for t, q := range s.aq[s.aPtr[sn]:s.aPtr[sn+1]] {
-			L[s.aOff[s.aPtr[sn]+t]] += f.aval[q]
-		}
-		cbSize := m2 * (m2 + 1) / 2
-		cb := stack[top : top+cbSize]
-		clear(cb)
-		for t, i := range rows {
-			pos[i] = int32(t)
-		}
-		// Extend-add the children's update matrices (the topmost blocks of the stack).
-		base := top
-		for len(blocks) > 0 && s.parent[blocks[len(blocks)-1].sn] == int32(sn) {
-			ch := blocks[len(blocks)-1]
-			blocks = blocks[:len(blocks)-1]
-			base = ch.off
-			crow := s.rows[s.rowPtr[ch.sn]:s.rowPtr[ch.sn+1]]
-			ck := int(s.first[ch.sn+1] - s.first[ch.sn])
-			extendAdd(stack[ch.off:], crow[ck:], pos, L, m, k, cb)
-		}
-		// Factor the pivot block and apply the rank updates.
-		if bad, piv := factorFront(L, m, k, cb, work); bad >= 0 {
-			col := int(s.first[sn]) + bad
-			return nil, &SingularError{Column: int(s.perm[col]), Pivot: piv}
-		}
-		// Check pivots against the column scale.
-		for j := 0; j < k; j++ {
-			d := L[j*m+j]
-			col := int(s.first[sn]) + j
-			if !finite(d) || cabs(d) <= PivotTolerance*scale[s.perm[col]] {
-				return nil, &SingularError{Column: int(s.perm[col]), Pivot: d}
+		if t := s.taskOf[sn]; t >= 0 {
+			if int(s.tasks[t][1]) == sn && s.parent[sn] >= 0 {
+				fw.blocks = append(fw.blocks, block{sn: sn, cb: roots[t], off: -1})
 			}
+			continue
 		}
-		// Move this update matrix down over the consumed children.
-		if base != top {
-			copy(stack[base:base+cbSize], cb)
-		}
-		top = base
-		if s.parent[sn] >= 0 && cbSize > 0 {
-			blocks = append(blocks, block{sn, top})
-			top += cbSize
-		} else if s.parent[sn] >= 0 {
-			blocks = append(blocks, block{sn, top})
+		if err := fw.front(sn); err != nil {
+			return nil, err
 		}
 	}
 	return f, nil
+}
+
+// factorCtx is what the workers of one factorisation share.
+type factorCtx struct {
+	s     *Symbolic
+	f     *Factor
+	scale []float64 // max |A_ij| over each original column
+}
+
+// block is a pending update matrix: cb holds it (packed lower, order m−k of supernode sn); off is its start in
+// the worker's stack, or −1 when it lives elsewhere.
+type block struct {
+	sn, off int
+	cb      []complex128
+}
+
+// frontWorker factors supernodes one after another in postorder with its own update-matrix stack.
+type frontWorker struct {
+	*factorCtx
+	stack  []complex128
+	top    int
+	blocks []block
+	pos    []int32
+	work   []complex128
+	procs  int // goroutines for large dense updates
+}
+
+func (c *factorCtx) newWorker(stackSize int64, procs int) *frontWorker {
+	stack := make([]complex128, stackSize)
+	adviseHuge(stack)
+	return &frontWorker{factorCtx: c, stack: stack, pos: make([]int32, c.s.n), work: make([]complex128, c.s.maxWork), procs: procs}
+}
+
+func (w *frontWorker) reset() { w.top, w.blocks = 0, w.blocks[:0] }
+
+// front assembles supernode sn from A and its children's update matrices, factors its pivot block, and pushes
+// its own update matrix.
+func (w *frontWorker) front(sn int) error {
+	s := w.s
+	k := int(s.first[sn+1] - s.first[sn])
+	rows := s.rows[s.rowPtr[sn]:s.rowPtr[sn+1]]
+	m := len(rows)
+	m2 := m - k
+	L := w.f.lx[s.lOff[sn]:s.lOff[sn+1]]
+	aval := w.f.aval
+	aOff := s.aOff[s.aPtr[sn]:s.aPtr[sn+1]]
+	for t, q := range s.aq[s.aPtr[sn]:s.aPtr[sn+1]] {
+		L[aOff[t]] += aval[q]
+	}
+	cbSize := m2 * (m2 + 1) / 2
+	cb := w.stack[w.top : w.top+cbSize]
+	clear(cb)
+	pos := w.pos
+	for t, i := range rows {
+		pos[i] = int32(t)
+	}
+	// Extend-add the children's update matrices (the topmost blocks).
+	base := w.top
+	for len(w.blocks) > 0 && s.parent[w.blocks[len(w.blocks)-1].sn] == int32(sn) {
+		ch := w.blocks[len(w.blocks)-1]
+		w.blocks = w.blocks[:len(w.blocks)-1]
+		if ch.off >= 0 {
+			base = ch.off
+		}
+		crow := s.rows[s.rowPtr[ch.sn]:s.rowPtr[ch.sn+1]]
+		ck := int(s.first[ch.sn+1] - s.first[ch.sn])
+		extendAdd(ch.cb, crow[ck:], pos, L, m, k, cb)
+	}
+	if bad, piv := factorFront(L, m, k, cb, w.work, w.procs); bad >= 0 {
+		col := int(s.first[sn]) + bad
+		return &SingularError{Column: int(s.perm[col]), Pivot: piv}
+	}
+	for j := 0; j < k; j++ {
+		d := L[j*m+j]
+		col := int(s.first[sn]) + j
+		if !finite(d) || cabs(d) <= PivotTolerance*w.scale[s.perm[col]] {
+			return &SingularError{Column: int(s.perm[col]), Pivot: d}
+		}
+	}
+	// Move this update matrix down over the consumed children.
+	if base != w.top {
+		copy(w.stack[base:base+cbSize], cb)
+	}
+	w.top = base
+	if s.parent[sn] >= 0 {
+		w.blocks = append(w.blocks, block{sn: sn, off: w.top, cb: w.stack[w.top : w.top+cbSize]})
+		w.top += cbSize
+	}
+	return nil
 }
 
 // extendAdd adds a child's packed lower update matrix (rows crow, all present in the parent pattern) into the
@@ -147,7 +243,7 @@ func extendAdd(child []complex128, crow []int32, pos []int32, L []complex128, m,
 // column meaningful) and subtracts their contribution from the packed lower update matrix cb of order m−k. On
 // return L holds D on its diagonal and the unit-lower L below. It returns the local column of a zero or
 // non-finite pivot, or −1.
-func factorFront(L []complex128, m, k int, cb, work []complex128) (int, complex128) {
+func factorFront(L []complex128, m, k int, cb, work []complex128, procs int) (int, complex128) {
 	for jb := 0; jb < k; jb += panelWidth {
 		je := min(jb+panelWidth, k)
 		for j := jb; j < je; j++ {
@@ -180,19 +276,49 @@ func factorFront(L []complex128, m, k int, cb, work []complex128) (int, complex1
 				W[t*bw+p-jb] = d * v
 			}
 		}
-		rankUpdate(L, m, k, jb, je, W, cb)
+		rankUpdate(L, m, k, jb, je, W, cb, procs)
 	}
 	return -1, 0
 }
 
+// parallelUpdate is the work (complex multiply-adds) of a rank update above which it is split over goroutines.
+const parallelUpdate = 1 << 18
+
 // rankUpdate subtracts L(:, jb:je) D(jb:je) L(c, jb:je)ᵀ from every target column c ≥ je of the front (panel
-// columns c < k in L, the rest in the packed cb), rows ≥ c only.
-func rankUpdate(L []complex128, m, k, jb, je int, W []complex128, cb []complex128) {
+// columns c < k in L, the rest in the packed cb), rows ≥ c only. Large updates are split by target columns over
+// procs goroutines in slices of equal work; each entry is still computed by one goroutine the same way.
+func rankUpdate(L []complex128, m, k, jb, je int, W []complex128, cb []complex128, procs int) {
+	h := float64(m - je)
+	if procs <= 1 || h*h/2*float64(je-jb) < parallelUpdate {
+		rankUpdateCols(L, m, k, jb, je, je, m, W, cb)
+		return
+	}
+	var wg sync.WaitGroup
+	c0 := je
+	for p := 1; p <= procs; p++ {
+		c1 := m
+		if p < procs {
+			c1 = m - int(h*math.Sqrt(1-float64(p)/float64(procs)))
+		}
+		if c1 > c0 {
+			wg.Add(1)
+			go func(c0, c1 int) {
+				defer wg.Done()
+				rankUpdateCols(L, m, k, jb, je, c0, c1, W, cb)
+			}(c0, c1)
+		}
+		c0 = max(c0, c1)
+	}
+	wg.Wait()
+}
+
+// rankUpdateCols is rankUpdate restricted to target columns c0 ≤ c < c1.
+func rankUpdateCols(L []complex128, m, k, jb, je, c0, c1 int, W []complex128, cb []complex128) {
 	bw := je - jb
 	m2 := m - k
 	for ib := je; ib < m; ib += rowTile {
 		ie := min(ib+rowTile, m)
-		for c := je; c < ie; c++ {
+		for c := c0; c < min(ie, c1); c++ {
 			i0 := max(ib, c)
 			var d []complex128
 			if c < k {

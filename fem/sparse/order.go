@@ -80,7 +80,7 @@ func newGraph(a *Matrix) *graph {
 func denseThreshold(n int) int { return max(64, int(10*math.Sqrt(float64(n)))) }
 
 // leafSize is the subgraph size below which nested dissection stops splitting.
-const leafSize = 48
+const leafSize = 16
 
 // order returns perm with perm[k] = the original index of the k-th pivot.
 func order(g *graph, opt Options) ([]int32, Ordering, error) {

@@ -23,7 +23,7 @@ type SymbolicStats struct {
 	Flops       float64 // complex multiply-adds of the numeric factorisation
 	Supernodes  int
 	MaxFront    int   // largest frontal matrix order
-	StackPeak   int64 // complex entries of the update-matrix stack at its peak
+	StackPeak   int64 // complex entries of the update-matrix stacks at their peak (one task plus the top part)
 	FactorBytes int64 // bytes of numeric storage a Factor holds (L, D, a copy of A's values)
 	Ordering    Ordering
 	OrderTime   time.Duration
@@ -48,6 +48,12 @@ type Symbolic struct {
 	aOff    []int32 // aOff[t] = offset of A.Val[aq[t]] within its supernode's block
 	stats   SymbolicStats
 	maxWork int // size of the rank-update coefficient buffer
+	// tasks are independent subtrees [lo, hi] (supernode ranges, hi the root), heaviest first, that Factor
+	// spreads over goroutines; taskOf[s] is the task holding supernode s or −1 for the top part, which is
+	// factored after them. taskPeak and topPeak are the stack sizes (complex entries) a task and the top part need.
+	tasks             [][2]int32
+	taskOf            []int32
+	taskPeak, topPeak int64
 }
 
 // Stats returns the analysis statistics.
@@ -308,41 +314,35 @@ func Analyze(a *Matrix, opt Options) (*Symbolic, error) {
 		}
 	}
 
-	// Storage offsets, statistics, and the simulated update-matrix stack.
+	// Storage offsets, statistics, the split into independent subtrees and the simulated update-matrix stacks.
 	lOff := make([]int, ns+1)
+	work := make([]float64, ns) // flops of each supernode, then of its whole subtree
 	var flops float64
 	var stored int64
 	maxFront, maxWork := 0, 0
-	var stackTop, stackPeak int64
-	var stk []int64
 	for s := 0; s < ns; s++ {
 		k, m := int(first[s+1]-first[s]), rowPtr[s+1]-rowPtr[s]
 		lOff[s+1] = lOff[s] + m*k
 		stored += entries(k, m)
 		for j := 0; j < k; j++ {
 			h := float64(m - j)
-			flops += (h-1)*h/2 + (h - 1)
+			work[s] += (h-1)*h/2 + (h - 1)
 		}
+		flops += work[s]
 		maxFront = max(maxFront, m)
 		maxWork = max(maxWork, panelWidth*(m-min(k, panelWidth)))
-		cb := int64(m-k) * int64(m-k+1) / 2
-		stackPeak = max(stackPeak, stackTop+cb)
-		var popped int64
-		nc := 0
-		for c := cHead[s]; c >= 0; c = cNext[c] {
-			nc++
-		}
-		for ; nc > 0; nc-- {
-			popped += stk[len(stk)-1]
-			stk = stk[:len(stk)-1]
-		}
-		stackTop += cb - popped
-		if spar[s] >= 0 {
-			stk = append(stk, cb)
-		} else {
-			stackTop -= cb
+	}
+	for s := 0; s < ns; s++ {
+		if p := spar[s]; p >= 0 {
+			work[p] += work[s]
 		}
 	}
+	tasks, taskOf := splitTree(spar, cHead, cNext, work)
+	var taskPeak, topPeak int64
+	for _, t := range tasks {
+		taskPeak = max(taskPeak, simulateStack(int(t[0]), int(t[1])+1, first, rowPtr, spar, cHead, cNext, nil))
+	}
+	topPeak = simulateStack(0, ns, first, rowPtr, spar, cHead, cNext, taskOf)
 
 	// Destination of every entry of A in the L storage, grouped by supernode.
 	aq := make([]int32, 0, a.ColPtr[n])
@@ -394,11 +394,11 @@ func Analyze(a *Matrix, opt Options) (*Symbolic, error) {
 	st := &Symbolic{
 		n: n, colPtr: slices.Clone(a.ColPtr), rowIdx: slices.Clone(a.RowIdx[:a.ColPtr[n]]),
 		perm: perm, iperm: iperm, first: first, rowPtr: rowPtr, rows: rows, lOff: lOff, parent: spar, aPtr: aPtr, aq: aq, aOff: aOff,
-		maxWork: maxWork,
+		maxWork: maxWork, tasks: tasks, taskOf: taskOf, taskPeak: taskPeak, topPeak: topPeak,
 	}
 	st.stats = SymbolicStats{
 		N: n, NnzA: a.ColPtr[n], NnzL: nnzL, NnzLStored: stored, Flops: flops, Supernodes: ns, MaxFront: maxFront,
-		StackPeak: stackPeak, FactorBytes: int64(lOff[ns])*16 + int64(a.ColPtr[n])*16,
+		StackPeak: topPeak + taskPeak, FactorBytes: int64(lOff[ns])*16 + int64(a.ColPtr[n])*16,
 		Ordering: used, OrderTime: tOrder, AnalyzeTime: time.Since(t0),
 	}
 	return st, nil
@@ -454,4 +454,112 @@ func postorderSubset(parent []int32) []int32 {
 		}
 	}
 	return post
+}
+
+// maxTaskShare: splitTree splits subtrees until none holds more than this share of the total work, so that
+// dynamic scheduling over a few goroutines balances well.
+const maxTaskShare = 1.0 / 24
+
+// minTaskWork is the work (complex multiply-adds) below which a whole factorisation is one task: goroutines do
+// not pay off on tiny systems.
+const minTaskWork = 2e5
+
+// splitTree chooses independent subtrees of the supernodal forest (parent spar, child lists cHead/cNext, subtree
+// work) by repeatedly replacing the heaviest one with its children while it holds more than maxTaskShare of the
+// total. Supernodes left above the chosen subtrees form the top part.
+func splitTree(spar, cHead, cNext []int32, work []float64) ([][2]int32, []int32) {
+	ns := len(spar)
+	taskOf := make([]int32, ns)
+	for i := range taskOf {
+		taskOf[i] = -1
+	}
+	var total float64
+	var cand []int32
+	for s := 0; s < ns; s++ {
+		if spar[s] < 0 {
+			total += work[s]
+			cand = append(cand, int32(s))
+		}
+	}
+	if total < minTaskWork {
+		cand = cand[:0]
+		for s := 0; s < ns; s++ {
+			if spar[s] < 0 {
+				cand = append(cand, int32(s))
+			}
+		}
+	} else {
+		for {
+			h := -1
+			for i, c := range cand {
+				if cHead[c] >= 0 && work[c] > maxTaskShare*total && (h < 0 || work[c] > work[cand[h]]) {
+					h = i
+				}
+			}
+			if h < 0 {
+				break
+			}
+			c := cand[h]
+			cand = append(cand[:h], cand[h+1:]...)
+			for ch := cHead[c]; ch >= 0; ch = cNext[ch] {
+				cand = append(cand, ch)
+			}
+		}
+	}
+	// A subtree in postorder is the contiguous range ending at its root; its size comes from descendant counts.
+	size := make([]int32, ns)
+	for s := 0; s < ns; s++ {
+		size[s]++
+		if p := spar[s]; p >= 0 {
+			size[p] += size[s]
+		}
+	}
+	slices.SortFunc(cand, func(a, b int32) int {
+		if work[a] != work[b] {
+			if work[a] > work[b] {
+				return -1
+			}
+			return 1
+		}
+		return int(a - b)
+	})
+	tasks := make([][2]int32, len(cand))
+	for i, r := range cand {
+		tasks[i] = [2]int32{r - size[r] + 1, r}
+		for s := r - size[r] + 1; s <= r; s++ {
+			taskOf[s] = int32(i)
+		}
+	}
+	return tasks, taskOf
+}
+
+// simulateStack returns the peak size (complex entries) of the update-matrix stack when supernodes lo..hi−1
+// are factored in order. With taskOf given, supernodes inside tasks are skipped and task roots' update matrices
+// live outside the stack (they are computed by the task workers).
+func simulateStack(lo, hi int, first []int32, rowPtr []int, spar, cHead, cNext []int32, taskOf []int32) int64 {
+	var top, peak int64
+	var stk []int64
+	for s := lo; s < hi; s++ {
+		if taskOf != nil && taskOf[s] >= 0 {
+			continue
+		}
+		k, m := int64(first[s+1]-first[s]), int64(rowPtr[s+1]-rowPtr[s])
+		cb := (m - k) * (m - k + 1) / 2
+		peak = max(peak, top+cb)
+		var popped int64
+		for c := cHead[s]; c >= 0; c = cNext[c] {
+			if taskOf != nil && taskOf[c] >= 0 {
+				continue
+			}
+			popped += stk[len(stk)-1]
+			stk = stk[:len(stk)-1]
+		}
+		top += cb - popped
+		if spar[s] >= 0 && int(spar[s]) < hi {
+			stk = append(stk, cb)
+		} else if spar[s] < 0 {
+			top -= cb
+		}
+	}
+	return max(peak, top)
 }
