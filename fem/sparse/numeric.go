@@ -344,14 +344,20 @@ func gemvNeg(d []complex128, L []complex128, m, off int, w []complex128) {
 		a1 := L[o+m : o+m+n]
 		a2 := L[o+2*m : o+2*m+n]
 		a3 := L[o+3*m : o+3*m+n]
-		w0, w1, w2, w3 := w[p], w[p+1], w[p+2], w[p+3]
-		for i := range d {
-			d[i] -= w0*a0[i] + w1*a1[i] + w2*a2[i] + w3*a3[i]
-		}
+		gemv4(d, a0, a1, a2, a3, w[p:p+4])
 	}
 	for ; p < len(w); p++ {
 		o := off + p*m
 		axpyNeg(d, L[o:o+n], w[p])
+	}
+}
+
+// gemv4Go is the portable gemv4: d −= w[0]·a0 + w[1]·a1 + w[2]·a2 + w[3]·a3.
+func gemv4Go(d, a0, a1, a2, a3 []complex128, w []complex128) {
+	a0, a1, a2, a3 = a0[:len(d)], a1[:len(d)], a2[:len(d)], a3[:len(d)]
+	w0, w1, w2, w3 := w[0], w[1], w[2], w[3]
+	for i := range d {
+		d[i] -= w0*a0[i] + w1*a1[i] + w2*a2[i] + w3*a3[i]
 	}
 }
 
