@@ -4,19 +4,24 @@ import (
 	"fmt"
 	"os"
 	"runtime"
+	"runtime/metrics"
 	"sync"
 	"sync/atomic"
 	"testing"
 	"time"
 )
 
-// peakHeap samples runtime.MemStats.HeapInuse every 20 ms while fn runs and returns the peak above the
-// starting level, in bytes (sampling can miss short spikes).
+// peakHeap samples the bytes of live and not yet reused heap spans (runtime/metrics, which unlike
+// runtime.ReadMemStats does not stop the world and so does not disturb the timed code) every 20 ms while fn runs,
+// and returns the peak above the starting level, in bytes (sampling can miss short spikes).
 func peakHeap(fn func()) uint64 {
 	runtime.GC()
-	var ms runtime.MemStats
-	runtime.ReadMemStats(&ms)
-	base := ms.HeapInuse
+	sample := []metrics.Sample{{Name: "/memory/classes/heap/objects:bytes"}, {Name: "/memory/classes/heap/unused:bytes"}}
+	inuse := func() uint64 {
+		metrics.Read(sample)
+		return sample[0].Value.Uint64() + sample[1].Value.Uint64()
+	}
+	base := inuse()
 	var peak atomic.Uint64
 	stop := make(chan struct{})
 	var wg sync.WaitGroup
@@ -25,15 +30,13 @@ func peakHeap(fn func()) uint64 {
 		defer wg.Done()
 		t := time.NewTicker(20 * time.Millisecond)
 		defer t.Stop()
-		var m runtime.MemStats
 		for {
 			select {
 			case <-stop:
 				return
 			case <-t.C:
-				runtime.ReadMemStats(&m)
-				if m.HeapInuse > peak.Load() {
-					peak.Store(m.HeapInuse)
+				if v := inuse(); v > peak.Load() {
+					peak.Store(v)
 				}
 			}
 		}
@@ -41,8 +44,7 @@ func peakHeap(fn func()) uint64 {
 	fn()
 	close(stop)
 	wg.Wait()
-	runtime.ReadMemStats(&ms)
-	p := max(peak.Load(), ms.HeapInuse)
+	p := max(peak.Load(), inuse())
 	if p < base {
 		return 0
 	}
