@@ -452,13 +452,16 @@ func (f *Factor) residual(r, x, b []complex128, normB float64) float64 {
 	return res
 }
 
-// solveOnce sets x = A⁻¹ b by permutation, forward substitution, diagonal scaling and back substitution.
+// solveOnce sets x = A⁻¹ b by permutation, forward substitution, diagonal scaling and back substitution. Each
+// supernode's own pivots are contiguous in y, so only its rows below them go through the index list, gathered or
+// scattered once per supernode.
 func (f *Factor) solveOnce(x, b []complex128) {
 	s := f.s
 	y := make([]complex128, s.n)
 	for k, old := range s.perm {
 		y[k] = b[old]
 	}
+	tmp := make([]complex128, s.stats.MaxFront)
 	ns := len(s.first) - 1
 	for sn := 0; sn < ns; sn++ {
 		fc := int(s.first[sn])
@@ -466,12 +469,23 @@ func (f *Factor) solveOnce(x, b []complex128) {
 		rows := s.rows[s.rowPtr[sn]:s.rowPtr[sn+1]]
 		m := len(rows)
 		L := s.block(f.lx, sn)
+		yk := y[fc : fc+k]
+		t := tmp[:m-k]
+		clear(t)
 		for j := 0; j < k; j++ {
-			yj := y[fc+j]
+			yj := yk[j]
 			col := L[j*m : j*m+m]
-			for i := j + 1; i < m; i++ {
-				y[rows[i]] -= col[i] * yj
+			for i := j + 1; i < k; i++ {
+				yk[i] -= col[i] * yj
 			}
+			below := col[k:m]
+			below = below[:len(t)]
+			for i, v := range below {
+				t[i] += v * yj
+			}
+		}
+		for i, r := range rows[k:] {
+			y[r] -= t[i]
 		}
 	}
 	for sn := 0; sn < ns; sn++ {
@@ -489,13 +503,23 @@ func (f *Factor) solveOnce(x, b []complex128) {
 		rows := s.rows[s.rowPtr[sn]:s.rowPtr[sn+1]]
 		m := len(rows)
 		L := s.block(f.lx, sn)
+		yk := y[fc : fc+k]
+		g := tmp[:m-k]
+		for i, r := range rows[k:] {
+			g[i] = y[r]
+		}
 		for j := k - 1; j >= 0; j-- {
 			col := L[j*m : j*m+m]
 			var sum complex128
-			for i := j + 1; i < m; i++ {
-				sum += col[i] * y[rows[i]]
+			for i := j + 1; i < k; i++ {
+				sum += col[i] * yk[i]
 			}
-			y[fc+j] -= sum
+			below := col[k:m]
+			below = below[:len(g)]
+			for i, v := range below {
+				sum += v * g[i]
+			}
+			yk[j] -= sum
 		}
 	}
 	for k, old := range s.perm {
