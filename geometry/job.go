@@ -135,7 +135,7 @@ type MeshControls struct {
 	// device's mid-height on the axis, that holds every conductor).
 	OuterSize float64
 	// CurveTol is the largest distance allowed between a curve and its straight segments (sagitta), m; 0 means
-	// automatic: 1/1000 of the smallest curve radius.
+	// automatic: 1/4000 of the smallest curve radius.
 	CurveTol float64
 	// MinAngle is the smallest triangle angle the mesher should reach, degrees.
 	MinAngle float64

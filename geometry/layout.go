@@ -177,6 +177,11 @@ func (j *Job) Layout() (*Layout, error) {
 		r := &regs[i+1]
 		feat := s.feature()
 		hs := feat / 4
+		if r.Kind == StrandedRegion {
+			// Uniform current density and no eddy currents: the field varies smoothly through the block, so one
+			// quadratic element across its thinnest side is enough.
+			hs = feat
+		}
 		if r.SkinDepth > 0 {
 			hs = math.Min(hs, r.SkinDepth/m.PerSkinDepth)
 		}

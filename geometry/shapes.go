@@ -460,7 +460,9 @@ func (j *Job) checkGeometry() error {
 	return nil
 }
 
-// curveTol is the curve tolerance in use, m: the file's value or 1/1000 of the smallest curve radius.
+// curveTol is the curve tolerance in use, m: the file's value or 1/4000 of the smallest curve radius (a circle
+// cut into chords loses about 4/3 of the sagitta over the radius in area, so 1/4000 keeps a round conductor's DC
+// resistance within about 0.03 %).
 func (j *Job) curveTol() float64 {
 	if j.Mesh.CurveTol > 0 {
 		return j.Mesh.CurveTol
@@ -478,5 +480,5 @@ func (j *Job) curveTol() float64 {
 	if rmin == 0 || math.IsInf(rmin, 1) {
 		rmin = 1
 	}
-	return rmin * 1e-3
+	return rmin / 4000
 }
