@@ -76,10 +76,16 @@ func TestVersion(t *testing.T) {
 	}
 }
 
-// The mesh command on the smallest example: JSON keys the issue names, and a minimum angle of at least 28°.
+// The mesh command on every example: the JSON keys the issue names, and a minimum angle of at least 28°.
 func TestMeshJSON(t *testing.T) {
+	for _, ex := range []string{"levitation-slug", "billet-heater", "crucible-melt"} {
+		t.Run(ex, func(t *testing.T) { checkMeshJSON(t, "../../examples/"+ex+".toml") })
+	}
+}
+
+func checkMeshJSON(t *testing.T, job string) {
 	out := filepath.Join(t.TempDir(), "m")
-	code, stdout, stderr := runCmd("mesh", "../../examples/crucible-melt.toml", "--json", "--out", out)
+	code, stdout, stderr := runCmd("mesh", job, "--json", "--out", out)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}

@@ -66,7 +66,7 @@ func runSolve(o *solveOptions) error {
 	if err != nil {
 		return err
 	}
-	rep := s.Result.Report()
+	rep := s.Report()
 	out := newOutputs(defaultOut(o.job, o.out))
 	if err := addSolveFiles(out, s, rep, o); err != nil {
 		return err

@@ -82,3 +82,14 @@ func (s *Solution) check() error {
 	}
 	return nil
 }
+
+// Report is the solve's report, with a note on how a power-driven coil's current was found.
+func (s *Solution) Report() *post.Report {
+	rep := s.Result.Report()
+	if i := s.Model.PowerDrive; i >= 0 {
+		c := s.Model.Job.Coils[i]
+		rep.Notes = append(rep.Notes, fmt.Sprintf("coil %q is driven to put %.4g W into part %q: solved at 1 A rms and "+
+			"scaled (the field is linear in the current), which needs %.4g A rms", c.Name, c.Value, c.Into, cmplx.Abs(s.Scale)))
+	}
+	return rep
+}
