@@ -9,13 +9,21 @@ import (
 // Robust Geometric Predicates", Discrete & Computational Geometry 18:305–363 (1997). Each predicate first
 // evaluates the determinant in floating point and accepts its sign when the magnitude exceeds the paper's
 // forward error bound (errboundA); otherwise it recomputes the determinant exactly with floating-point
-// expansions (sums of non-overlapping doubles). Only the final exact stage of the paper's four-stage scheme is
-// kept: the filter decides almost every call, and the exact stage is simple enough to trust.
+// expansions (sums of non-overlapping doubles), in the paper's stages: B evaluates the determinant exactly from
+// the rounded coordinate differences (exact outright when those differences are exact, as on the regular,
+// grid-like point sets that refinement produces, where co-circular quadruples are common); C adds a first-order
+// correction for the differences' rounding errors; only if both are inconclusive does the full exact
+// evaluation (stage D, done here from scratch) run. The error bounds are the paper's.
 
 const (
-	epsilon      = 1.1102230246251565e-16 // 2^-53, half an ulp of 1
-	ccwErrBoundA = (3 + 16*epsilon) * epsilon
-	iccErrBoundA = (10 + 96*epsilon) * epsilon
+	epsilon        = 1.1102230246251565e-16 // 2^-53, half an ulp of 1
+	resultErrBound = (3 + 8*epsilon) * epsilon
+	ccwErrBoundA   = (3 + 16*epsilon) * epsilon
+	ccwErrBoundB   = (2 + 12*epsilon) * epsilon
+	ccwErrBoundC   = (9 + 64*epsilon) * epsilon * epsilon
+	iccErrBoundA   = (10 + 96*epsilon) * epsilon
+	iccErrBoundB   = (4 + 48*epsilon) * epsilon
+	iccErrBoundC   = (44 + 576*epsilon) * epsilon * epsilon
 )
 
 // Orient2D returns a positive value when a, b, c occur in counter-clockwise order, a negative value when they
@@ -43,7 +51,33 @@ func Orient2D(a, b, c Point) float64 {
 	if det >= ccwErrBoundA*detsum || -det >= ccwErrBoundA*detsum {
 		return det
 	}
-	return orient2DExact(a, b, c)
+	det, _ = orient2DAdapt(a, b, c, detsum)
+	return det
+}
+
+// orient2DAdapt runs stages B, C and D of the orientation test and reports which stage decided (for tests).
+func orient2DAdapt(a, b, c Point, detsum float64) (float64, int) {
+	acx, bcx := a.X-c.X, b.X-c.X
+	acy, bcy := a.Y-c.Y, b.Y-c.Y
+	l1, l0 := twoProduct(acx, bcy)
+	r1, r0 := twoProduct(acy, bcx)
+	var bb [4]float64
+	B := sumInto(bb[:0], []float64{l0, l1}, []float64{-r0, -r1})
+	det := expSumEstimate(B)
+	if eb := ccwErrBoundB * detsum; det >= eb || -det >= eb {
+		return det, 'B'
+	}
+	acxt, bcxt := diffTail(a.X, c.X, acx), diffTail(b.X, c.X, bcx)
+	acyt, bcyt := diffTail(a.Y, c.Y, acy), diffTail(b.Y, c.Y, bcy)
+	if acxt == 0 && acyt == 0 && bcxt == 0 && bcyt == 0 {
+		return det, 'B' // the differences were exact, so B was the exact determinant
+	}
+	eb := ccwErrBoundC*detsum + resultErrBound*math.Abs(det)
+	det += (acx*bcyt + bcy*acxt) - (acy*bcxt + bcx*acyt)
+	if det >= eb || -det >= eb {
+		return det, 'C'
+	}
+	return orient2DExact(a, b, c), 'D'
 }
 
 // InCircle returns a positive value when d lies strictly inside the circle through a, b, c, a negative value
@@ -67,7 +101,71 @@ func InCircle(a, b, c, d Point) float64 {
 	if det > errbound || -det > errbound {
 		return det
 	}
-	return inCircleExact(a, b, c, d)
+	det, _ = inCircleAdapt(a, b, c, d, permanent)
+	return det
+}
+
+// inCircleAdapt runs stages B, C and D of the in-circle test and reports which stage decided (for tests).
+// Stage B works in fixed-size stack buffers, so it allocates nothing.
+func inCircleAdapt(a, b, c, d Point, permanent float64) (float64, int) {
+	adx, bdx, cdx := a.X-d.X, b.X-d.X, c.X-d.X
+	ady, bdy, cdy := a.Y-d.Y, b.Y-d.Y, c.Y-d.Y
+	var (
+		s1, s2, s3 [4]float64
+		t1, t2     [8]float64
+		u1, u2     [16]float64
+		det3       [3][32]float64
+		ab         [64]float64
+		fin        [96]float64
+	)
+	// lifted returns (x² + y²)·(p·q' − p'·q) exactly, for rounded differences.
+	lifted := func(x, y, p, q, pp, qq float64, dst []float64) []float64 {
+		h1, h0 := twoProduct(p, qq)
+		g1, g0 := twoProduct(pp, q)
+		cr := sumInto(s1[:0], append(s2[:0], h0, h1), append(s3[:0], -g0, -g1))
+		xx := scaleInto(u1[:0], scaleInto(t1[:0], cr, x), x)
+		yy := scaleInto(u2[:0], scaleInto(t2[:0], cr, y), y)
+		return sumInto(dst, xx, yy)
+	}
+	ad := lifted(adx, ady, bdx, bdy, cdx, cdy, det3[0][:0])
+	bd := lifted(bdx, bdy, cdx, cdy, adx, ady, det3[1][:0])
+	cd := lifted(cdx, cdy, adx, ady, bdx, bdy, det3[2][:0])
+	det := expSumEstimate(sumInto(fin[:0], sumInto(ab[:0], ad, bd), cd))
+	if eb := iccErrBoundB * permanent; det >= eb || -det >= eb {
+		return det, 'B'
+	}
+	adxt, bdxt, cdxt := diffTail(a.X, d.X, adx), diffTail(b.X, d.X, bdx), diffTail(c.X, d.X, cdx)
+	adyt, bdyt, cdyt := diffTail(a.Y, d.Y, ady), diffTail(b.Y, d.Y, bdy), diffTail(c.Y, d.Y, cdy)
+	if adxt == 0 && bdxt == 0 && cdxt == 0 && adyt == 0 && bdyt == 0 && cdyt == 0 {
+		return det, 'B' // the differences were exact, so B was the exact determinant
+	}
+	eb := iccErrBoundC*permanent + resultErrBound*math.Abs(det)
+	det += ((adx*adx+ady*ady)*((bdx*cdyt+cdy*bdxt)-(bdy*cdxt+cdx*bdyt)) +
+		2*(adx*adxt+ady*adyt)*(bdx*cdy-bdy*cdx)) +
+		((bdx*bdx+bdy*bdy)*((cdx*adyt+ady*cdxt)-(cdy*adxt+adx*cdyt)) +
+			2*(bdx*bdxt+bdy*bdyt)*(cdx*ady-cdy*adx)) +
+		((cdx*cdx+cdy*cdy)*((adx*bdyt+bdy*adxt)-(ady*bdxt+bdx*adyt)) +
+			2*(cdx*cdxt+cdy*cdyt)*(adx*bdy-ady*bdx))
+	if det >= eb || -det >= eb {
+		return det, 'C'
+	}
+	return inCircleExact(a, b, c, d), 'D'
+}
+
+// diffTail returns the rounding error of x = fl(a-b), so that a-b = x + tail exactly.
+func diffTail(a, b, x float64) float64 {
+	bv := a - x
+	av := x + bv
+	return (a - av) + (bv - b)
+}
+
+// expSumEstimate approximates the value of an expansion by the floating-point sum of its components.
+func expSumEstimate(e []float64) float64 {
+	q := 0.0
+	for _, x := range e {
+		q += x
+	}
+	return q
 }
 
 // arena hands out slices of one fixed buffer, so the exact stages allocate nothing on the heap.
@@ -215,7 +313,7 @@ func expMul(ar *arena, e, f []float64) []float64 {
 
 func scaleInto(dst, e []float64, b float64) []float64 {
 	h := dst[:0]
-	if b == 0 {
+	if b == 0 || len(e) == 0 {
 		return h
 	}
 	q, hh := twoProduct(e[0], b)

@@ -148,3 +148,59 @@ func BenchmarkPredicates(b *testing.B) {
 		_ = s
 	})
 }
+
+// TestPredicateStages drives the adaptive stages B, C and D of both predicates on inputs chosen to need each of
+// them, compares every sign with exact rational arithmetic, and requires each stage to have decided at least
+// once, so a broken stage cannot hide behind another. Inputs: points on a fine dyadic grid (exact differences,
+// many exact ties: stage B), the same grid offset far from the origin by a non-dyadic amount (inexact
+// differences: stages C and D), points nudged by an ulp off a line or circle, and exactly collinear points of
+// mixed magnitudes.
+func TestPredicateStages(t *testing.T) {
+	rng := rand.New(rand.NewSource(4))
+	seenO, seenI := map[int]int{}, map[int]int{}
+	for i := 0; i < 20000; i++ {
+		off := 0.0
+		switch i % 3 {
+		case 1:
+			off = 1000.1
+		case 2:
+			off = 0.3 + rng.Float64()
+		}
+		g := func() float64 { return off + float64(rng.Intn(9))/1024 }
+		p := [4]Point{{g(), g()}, {g(), g()}, {g(), g()}, {g(), g()}}
+		if k := rng.Intn(4); i%5 == 4 && p[k].X != 0 { // (an ulp of 0 would underflow, outside the predicates' domain)
+			p[k].X = math.Nextafter(p[k].X, math.Inf(2*rng.Intn(2)-1))
+		}
+		if i%7 == 6 { // exactly collinear on y = x, with coordinate differences that round: needs stage D
+			for k := range 3 {
+				v := rng.Float64() * math.Pow(10, float64(rng.Intn(7)-3))
+				p[k] = Point{v, v}
+			}
+		}
+		a, b, c, d := p[0], p[1], p[2], p[3]
+		{
+			o := Orient2D(a, b, c)
+			detsum := math.Abs((a.X-c.X)*(b.Y-c.Y)) + math.Abs((a.Y-c.Y)*(b.X-c.X))
+			got, st := orient2DAdapt(a, b, c, detsum)
+			if sign(got) != ratOrient(a, b, c) || sign(o) != sign(got) {
+				t.Fatalf("orient stage %c: %v sign %d, exact %d", st, p[:3], sign(got), ratOrient(a, b, c))
+			}
+			seenO[st]++
+		}
+		adx, ady, bdx, bdy, cdx, cdy := a.X-d.X, a.Y-d.Y, b.X-d.X, b.Y-d.Y, c.X-d.X, c.Y-d.Y
+		perm := (math.Abs(bdx*cdy)+math.Abs(cdx*bdy))*(adx*adx+ady*ady) +
+			(math.Abs(cdx*ady)+math.Abs(adx*cdy))*(bdx*bdx+bdy*bdy) +
+			(math.Abs(adx*bdy)+math.Abs(bdx*ady))*(cdx*cdx+cdy*cdy)
+		got, st := inCircleAdapt(a, b, c, d, perm)
+		want := ratInCircle(a, b, c, d)
+		if sign(got) != want || sign(InCircle(a, b, c, d)) != want {
+			t.Fatalf("in-circle stage %c: %v sign %d, exact %d", st, p, sign(got), want)
+		}
+		seenI[st]++
+	}
+	for _, st := range []int{'B', 'C', 'D'} {
+		if seenO[st] == 0 || seenI[st] == 0 {
+			t.Errorf("stage %c never decided (orient %v, in-circle %v)", st, seenO, seenI)
+		}
+	}
+}
