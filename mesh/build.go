@@ -8,10 +8,11 @@ package mesh
 //
 // Nothing here is shared between builders, so independent triangulations can run in parallel.
 type builder struct {
-	pts  []Point
-	nIn  int     // vertices [0, nIn) are input points; [nIn, nIn+3) the enclosing triangle; Steiner points after
-	vseg []int32 // for a Steiner vertex inserted on a segment, that segment; -1 otherwise
-	vt   []int32 // one live triangle incident to each vertex
+	pts   []Point
+	nIn   int     // vertices [0, nIn) are input points; [nIn, nIn+3) the enclosing triangle; Steiner points after
+	pinch []bool  // per input vertex: the domain pinches there (nil when none does)
+	vseg  []int32 // for a Steiner vertex inserted on a segment, that segment; -1 otherwise
+	vt    []int32 // one live triangle incident to each vertex
 
 	tv, tn, tc []int32
 	tag        []int32
@@ -356,8 +357,96 @@ func encroaches(a, b, p Point) bool {
 }
 
 // findEdge returns a live triangle and edge index holding the edge between vertices a and c (in either
-// direction), or (-1, -1).
+// direction), or (-1, -1). It turns around a, then around c; a vertex where the domain pinches (two separate
+// fans) may hide the edge from both, and then every triangle is scanned.
 func (b *builder) findEdge(a, c int32) (int32, int32) {
+	if t, k := b.findEdgeAround(a, c); t >= 0 {
+		return t, k
+	}
+	if t, k := b.findEdgeAround(c, a); t >= 0 {
+		return t, k
+	}
+	if !b.pinched(a) && !b.pinched(c) {
+		return -1, -1
+	}
+	for t := int32(0); t < int32(len(b.tag)); t++ {
+		if !b.alive(t) {
+			continue
+		}
+		for k := range int32(3) {
+			u, v := b.tv[3*t+k], b.tv[3*t+int32(nxt[k])]
+			if (u == a && v == c) || (u == c && v == a) {
+				return t, k
+			}
+		}
+	}
+	return -1, -1
+}
+
+// pinched reports whether v is an input vertex where the domain pinches (see markPinches).
+func (b *builder) pinched(v int32) bool { return int(v) < len(b.pinch) && b.pinch[v] }
+
+// markPinches records the input vertices whose triangles form more than one fan (the domain touches itself
+// there), where turning around the vertex cannot reach every edge. Vertices inserted later never pinch.
+func (b *builder) markPinches() {
+	count := make([]int32, b.nIn)
+	for t := int32(0); t < int32(len(b.tag)); t++ {
+		if b.alive(t) {
+			for k := range int32(3) {
+				if v := b.tv[3*t+k]; v < int32(b.nIn) {
+					count[v]++
+				}
+			}
+		}
+	}
+	b.pinch = nil
+	for v := range int32(b.nIn) {
+		if count[v] > 0 && b.fanSize(v) != count[v] {
+			if b.pinch == nil {
+				b.pinch = make([]bool, b.nIn)
+			}
+			b.pinch[v] = true
+		}
+	}
+}
+
+// fanSize counts the triangles reachable by turning around v from b.vt[v].
+func (b *builder) fanSize(v int32) int32 {
+	t0 := b.vt[v]
+	if t0 < 0 {
+		return 0
+	}
+	n := int32(0)
+	for dir := range 2 {
+		t := t0
+		for {
+			base := 3 * t
+			i := int32(0)
+			for b.tv[base+i] != v {
+				i++
+			}
+			if dir == 0 {
+				n++
+				t = b.tn[base+int32(prv[i])]
+			} else {
+				t = b.tn[base+i]
+				if t >= 0 {
+					n++
+				}
+			}
+			if t < 0 || t == t0 {
+				break
+			}
+		}
+		if t == t0 {
+			break
+		}
+	}
+	return n
+}
+
+// findEdgeAround looks for the edge a–c in the fan of triangles around a that contains b.vt[a].
+func (b *builder) findEdgeAround(a, c int32) (int32, int32) {
 	t0 := b.vt[a]
 	if t0 < 0 || !b.alive(t0) {
 		return -1, -1

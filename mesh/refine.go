@@ -239,12 +239,13 @@ func (r *refiner) afterInsert() {
 	}
 }
 
-// splitSeg splits the subsegment between vertices a and c, if it still exists.
-func (r *refiner) splitSeg(a, c int32) {
+// splitSeg splits the subsegment between vertices a and c, if it still exists, and reports whether a vertex
+// was inserted. A subsegment too short to split in floating point is remembered as stuck.
+func (r *refiner) splitSeg(a, c int32) bool {
 	b := r.b
 	t, k := b.findEdge(a, c)
 	if t < 0 || b.tc[3*t+k] < 0 {
-		return
+		return false
 	}
 	s := b.tc[3*t+k]
 	pa, pc := b.pts[a], b.pts[c]
@@ -266,12 +267,16 @@ func (r *refiner) splitSeg(a, c int32) {
 	p := Point{pa.X + f*(pc.X-pa.X), pa.Y + f*(pc.Y-pa.Y)}
 	if p != pa && p != pc && b.insert(p, -1, t, k, false, s) >= 0 {
 		r.afterInsert()
-		return
+		return true
 	}
 	r.stuck[[2]int32{a, c}], r.stuck[[2]int32{c, a}] = true, true
+	return false
 }
 
-// splitTri inserts the circumcentre of a bad triangle, or splits the subsegments it would encroach.
+// splitTri inserts the circumcentre of a bad triangle or, as in Ruppert's algorithm, splits the subsegments
+// that stand in its way: the one that blocks the walk from the triangle to its circumcentre (the centre lies
+// beyond it, or on it), or those whose diametral circles the centre would encroach. The triangle is queued
+// again only when some vertex was inserted, so every retry is paid for by progress and refinement ends.
 func (r *refiner) splitTri(it badTri) {
 	b := r.b
 	t := it.t
@@ -287,13 +292,8 @@ func (r *refiner) splitTri(it badTri) {
 	case locBlocked, locEdge:
 		if loc == locBlocked || b.tc[3*tt+k] >= 0 {
 			u, v := b.tv[3*tt+k], b.tv[3*tt+int32(nxt[k])]
-			pu, pv := b.pts[u], b.pts[v]
-			if r.stuck[[2]int32{u, v}] {
-				return
-			}
-			if loc == locEdge || encroaches(pu, pv, c) || encroaches(pu, pv, p0) || encroaches(pu, pv, p1) || encroaches(pu, pv, p2) {
-				b.enc = append(b.enc, [2]int32{u, v})
-				r.heap.push(it)
+			if !r.stuck[[2]int32{u, v}] && r.splitSeg(u, v) {
+				r.requeue(it)
 			}
 			return
 		}
@@ -305,11 +305,27 @@ func (r *refiner) splitTri(it badTri) {
 		r.afterInsert()
 		return
 	}
-	for _, e := range b.enc[n0:] {
-		if !r.stuck[e] {
-			r.heap.push(it)
-			return
+	// Split the encroached subsegments now (later ones may have gone with earlier splits).
+	split := false
+	n1 := len(b.enc)
+	for i := n0; i < n1; i++ {
+		e := b.enc[i]
+		if !r.stuck[e] && r.splitSeg(e[0], e[1]) {
+			split = true
 		}
+	}
+	// Keep only what the splits themselves found encroached.
+	b.enc = b.enc[:n0+copy(b.enc[n0:], b.enc[n1:])]
+	if split {
+		r.requeue(it)
+	}
+}
+
+// requeue queues it again if its triangle is still there, with its key recomputed by check.
+func (r *refiner) requeue(it badTri) {
+	b := r.b
+	if t := it.t; b.alive(t) && b.tv[3*t] == it.v0 && b.tv[3*t+1] == it.v1 && b.tv[3*t+2] == it.v2 {
+		r.heap.push(it)
 	}
 }
 

@@ -155,6 +155,7 @@ func newBuilder(g PSLG) (*builder, error) {
 	if err := b.carve(g); err != nil {
 		return nil, err
 	}
+	b.markPinches()
 	return b, nil
 }
 
