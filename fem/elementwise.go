@@ -68,6 +68,15 @@ func (s *Solution) regionAt(t, ri int) Region {
 	return elementRegion(s.Regions, s.elemSigma, s.elemMur, t, ri)
 }
 
+// ElementSigma returns the conductivity in force in triangle t, S/m (0 in air and stranded blocks).
+func (s *Solution) ElementSigma(t int) float64 {
+	r := s.regionAt(t, s.elemRg[t])
+	if r.Kind != SolidTurn && r.Kind != Part {
+		return 0
+	}
+	return r.Sigma
+}
+
 func elementRegion(regs []Region, sigma, mur []float64, t, ri int) Region {
 	if ri < 0 {
 		return Region{}

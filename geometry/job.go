@@ -10,6 +10,7 @@ import (
 	"fmt"
 	"math"
 	"os"
+	"slices"
 
 	"eddyrz/geometry/material"
 	"eddyrz/mesh"
@@ -191,8 +192,10 @@ type Probe struct {
 type Heating struct {
 	// Duration, s (0 when a stop temperature is used instead).
 	Duration float64
-	// StopPart and StopTemperature (K): stop when the part's coolest point (its core) reaches it.
+	// StopTemperature (K): stop when the coolest point of StopPart, or the probe named StopProbe, reaches it
+	// (exactly one of the two is set with it).
 	StopPart        string
+	StopProbe       string
 	StopTemperature float64
 	Ambient         float64 // K
 	// Emissivity overrides the materials' emissivity when > 0.
@@ -901,8 +904,17 @@ func readHeating(n *node) (*Heating, error) {
 	if hasDur == hasStop {
 		return nil, n.err("duration", "give exactly one of duration or stop_temperature (with stop_part) (for example duration = \"60 s\")")
 	}
-	if h.StopPart, err = n.str("stop_part", hasStop, ""); err != nil {
+	if h.StopPart, err = n.str("stop_part", false, ""); err != nil {
 		return nil, err
+	}
+	if h.StopProbe, err = n.str("stop_probe", false, ""); err != nil {
+		return nil, err
+	}
+	if hasStop && (h.StopPart == "") == (h.StopProbe == "") {
+		return nil, n.err("stop_temperature", "give exactly one of stop_part (its coldest point) or stop_probe (a named probe) with it (for example stop_probe = \"core\")")
+	}
+	if !hasStop && (h.StopPart != "" || h.StopProbe != "") {
+		return nil, n.err("duration", "stop_part and stop_probe need stop_temperature instead of duration (for example stop_temperature = \"1150 C\")")
 	}
 	if h.Ambient, _, err = n.positive("ambient", Temperature, false, roomTemperature); err != nil {
 		return nil, err
@@ -982,6 +994,9 @@ func (j *Job) checkReferences() error {
 	if h := j.Heating; h != nil {
 		if h.StopPart != "" && j.partIndex(h.StopPart) < 0 {
 			return r.errAt("heating.stop_part", "no part is named %q (name one of the [[part]] tables)", h.StopPart)
+		}
+		if h.StopProbe != "" && !slices.ContainsFunc(h.Probes, func(p Probe) bool { return p.Name == h.StopProbe }) {
+			return r.errAt("heating.stop_probe", "no probe is named %q (name one of the [[heating.probe]] tables)", h.StopProbe)
 		}
 		for i, p := range j.Parts {
 			if !p.Material.HasThermal() {

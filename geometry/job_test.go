@@ -2,6 +2,7 @@ package geometry
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"os"
 	"path/filepath"
@@ -87,7 +88,7 @@ func TestExamplesRead(t *testing.T) {
 	if b.Tank == nil || !b.Tank.Parallel || b.Tank.Capacitance != 280e-6 || b.Cooling == nil || b.Cooling.Pressure != 4e5 {
 		t.Errorf("tank/cooling: %+v %+v", b.Tank, b.Cooling)
 	}
-	if h := b.Heating; h == nil || h.StopPart != "bar" || math.Abs(h.StopTemperature-1423.15) > 1e-9 || len(h.Probes) != 2 {
+	if h := b.Heating; h == nil || h.StopProbe != "core" || h.StopPart != "" || math.Abs(h.StopTemperature-1423.15) > 1e-9 || len(h.Probes) != 2 {
 		t.Errorf("heating: %+v", b.Heating)
 	}
 	if b.Coils[0].Drive != DrivePower || b.Coils[0].Into != "bar" || b.Coils[0].Value != 60e3 {
@@ -222,3 +223,40 @@ func FuzzParse(f *testing.F) {
 }
 
 var _ = mesh.Point{}
+
+// The stop condition of [heating] names exactly one of a part or a probe.
+func TestHeatingStop(t *testing.T) {
+	base := `frequency = "10 kHz"
+applied_field = "1 mT"
+[[part]]
+name = "p"
+shape = "cylinder"
+radius = "10 mm"
+height = "20 mm"
+z = 0
+material = "steel"
+[heating]
+%s
+  [[heating.probe]]
+  name = "core"
+  r = 0
+  z = "10 mm"
+`
+	cases := []struct{ body, want string }{
+		{"stop_temperature = \"900 C\"\nstop_probe = \"core\"", ""},
+		{"stop_temperature = \"900 C\"\nstop_part = \"p\"", ""},
+		{"stop_temperature = \"900 C\"", "give exactly one of stop_part"},
+		{"stop_temperature = \"900 C\"\nstop_part = \"p\"\nstop_probe = \"core\"", "give exactly one of stop_part"},
+		{"stop_temperature = \"900 C\"\nstop_probe = \"tip\"", `heating.stop_probe: no probe is named "tip"`},
+		{"duration = \"10 s\"\nstop_probe = \"core\"", "need stop_temperature instead of duration"},
+	}
+	for _, c := range cases {
+		_, err := Parse("h.toml", []byte(fmt.Sprintf(base, c.body)))
+		switch {
+		case c.want == "" && err != nil:
+			t.Errorf("%q: %v", c.body, err)
+		case c.want != "" && (err == nil || !strings.Contains(err.Error(), c.want)):
+			t.Errorf("%q: got %v, want an error containing %q", c.body, err, c.want)
+		}
+	}
+}

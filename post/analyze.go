@@ -193,7 +193,7 @@ func Analyze(sol *fem.Solution, opt Options) (*Result, error) {
 			area[q.Region] += q.Weight / (2 * math.Pi * q.R)
 			return
 		}
-		p := jouleDensity(q.J, reg.Sigma)
+		p := jouleDensity(q.J, q.Sigma)
 		loss[q.Region] += p * q.Weight
 		pi := partOf[q.Region]
 		if pi < 0 {
@@ -211,7 +211,6 @@ func Analyze(sol *fem.Solution, opt Options) (*Result, error) {
 
 	for pi, pw := range parts {
 		pr := &res.Parts[pi]
-		reg := sol.Regions[pw.ri]
 		pr.Power = loss[pw.ri]
 		pr.SkinShare = math.NaN()
 		if pr.Power > 0 {
@@ -222,9 +221,10 @@ func Analyze(sol *fem.Solution, opt Options) (*Result, error) {
 		}
 		// The surface value is the peak in a skin-effect profile; nodes on the surface catch it.
 		for _, t := range pw.o.elems {
+			sigma := sol.ElementSigma(t)
 			for _, v := range triNodes(sol, t) {
 				pt := sol.Mesh.Nodes[v]
-				pr.peak(jouleDensity(complex(0, -w*reg.Sigma)*sol.A[v], reg.Sigma), pt.X, pt.Y)
+				pr.peak(jouleDensity(complex(0, -w*sigma)*sol.A[v], sigma), pt.X, pt.Y)
 			}
 		}
 	}

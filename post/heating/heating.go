@@ -127,6 +127,9 @@ func Run(md *study.Model, opt Options) (*Result, error) {
 	if h == nil {
 		return nil, fmt.Errorf("%s: %w", job.File, ErrNoHeating)
 	}
+	if opt.StopProbe == "" {
+		opt.StopProbe = h.StopProbe // the job's own stop probe, unless the caller names another
+	}
 	res := &Result{Job: job, Model: md, Probes: h.Probes, TimeStep: h.TimeStep, Tolerance: h.Tolerance,
 		Rule: ResolveRule, TargetTime: math.NaN()}
 	if opt.Tolerance > 0 {

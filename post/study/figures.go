@@ -24,16 +24,10 @@ func (s *Solution) Cells() CellFields {
 	cf := CellFields{Joule: make([]float64, n), B: make([]float64, n)}
 	w := make([]float64, n)
 	k2 := sq(cmplx.Abs(s.Scale))
-	sigma := make([]float64, len(s.Field.Regions))
-	for i, r := range s.Field.Regions {
-		if r.Kind == fem.SolidTurn || r.Kind == fem.Part {
-			sigma[i] = r.Sigma
-		}
-	}
 	s.Field.EachPoint(func(q fem.QuadPoint) {
 		w[q.Elem] += q.Weight
-		if q.Region >= 0 && sigma[q.Region] > 0 {
-			cf.Joule[q.Elem] += q.Weight * sq(cmplx.Abs(q.J)) / sigma[q.Region] * k2
+		if q.Region >= 0 && q.Sigma > 0 && s.Field.Regions[q.Region].Kind != fem.Stranded {
+			cf.Joule[q.Elem] += q.Weight * sq(cmplx.Abs(q.J)) / q.Sigma * k2
 		}
 		cf.B[q.Elem] += q.Weight * (sq(cmplx.Abs(q.Br)) + sq(cmplx.Abs(q.Bz))) * k2
 	})
