@@ -109,7 +109,8 @@ func (m *Mesh) Check() error {
 // CheckSegments verifies that every segment of g whose end points are mesh vertices is the union of mesh
 // edges listed in Edges with the segment's Tag (where segments overlap, any of their tags is accepted). Split
 // points count as on a segment within 1e-12 of its length (they are rounded interpolations).
-// Segments with an end point missing from the mesh (for instance inside a hole) are skipped.
+// Segments with an end point missing from the mesh (for instance inside a hole) are skipped, and so are the
+// pieces of a segment that lie outside every triangle (dangling parts outside the domain).
 func (m *Mesh) CheckSegments(g PSLG) error {
 	at := make(map[Point]int32, m.NumVertices)
 	for v := 0; v < m.NumVertices; v++ {
@@ -149,7 +150,16 @@ func (m *Mesh) CheckSegments(g PSLG) error {
 				}
 			}
 			if best < 0 {
-				return fmt.Errorf("mesh check: segment %d (%d, %d) is not covered by Edges beyond node %d", i, s.A, s.B, cur)
+				// A gap is allowed only where the segment leaves the domain (a dangling piece, removed with
+				// the triangles outside): skip to the next vertex on the segment if the piece between lies
+				// outside every triangle.
+				next, _ := m.nextOnSegment(pa, pb, dot(pa, pb, pc)/dist2(pa, pb))
+				mid := Point{(pc.X + m.Nodes[max(next, 0)].X) / 2, (pc.Y + m.Nodes[max(next, 0)].Y) / 2}
+				if next < 0 || m.insideAny(mid) {
+					return fmt.Errorf("mesh check: segment %d (%d, %d) is not covered by Edges beyond node %d", i, s.A, s.B, cur)
+				}
+				cur = next
+				continue
 			}
 			if bestTag != s.Tag && !overlapTagged(g, pa, pb, bestTag) {
 				return fmt.Errorf("mesh check: segment %d edge at node %d has tag %d, want %d", i, cur, bestTag, s.Tag)
@@ -164,6 +174,33 @@ func (m *Mesh) CheckSegments(g PSLG) error {
 func overlapTagged(g PSLG, pa, pb Point, tag int32) bool {
 	for _, s := range g.Segments {
 		if s.Tag == tag && math.Abs(Orient2D(pa, pb, g.Points[s.A])) <= 1e-12*dist2(pa, pb) && math.Abs(Orient2D(pa, pb, g.Points[s.B])) <= 1e-12*dist2(pa, pb) {
+			return true
+		}
+	}
+	return false
+}
+
+// nextOnSegment returns the mesh vertex on segment pa→pb (within the same rounding tolerance as CheckSegments)
+// with the smallest parameter beyond tc, or -1.
+func (m *Mesh) nextOnSegment(pa, pb Point, tc float64) (int32, float64) {
+	best, bestT := int32(-1), math.Inf(1)
+	for v := 0; v < m.NumVertices; v++ {
+		q := m.Nodes[v]
+		if math.Abs(Orient2D(pa, pb, q)) > 1e-12*dist2(pa, pb) {
+			continue
+		}
+		if tq := dot(pa, pb, q) / dist2(pa, pb); tq > tc && tq <= 1 && tq < bestT {
+			best, bestT = int32(v), tq
+		}
+	}
+	return best, bestT
+}
+
+// insideAny reports whether p lies in some closed triangle (exact orientation tests).
+func (m *Mesh) insideAny(p Point) bool {
+	for _, tr := range m.Tris {
+		a, b, c := m.Nodes[tr[0]], m.Nodes[tr[1]], m.Nodes[tr[2]]
+		if Orient2D(a, b, p) >= 0 && Orient2D(b, c, p) >= 0 && Orient2D(c, a, p) >= 0 {
 			return true
 		}
 	}

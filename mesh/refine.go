@@ -21,52 +21,48 @@ import (
 
 // badTri is a queued triangle with its corners, to detect that its slot has been reused since.
 type badTri struct {
-	key        float64
-	t          int32
-	v0, v1, v2 int32
+	t, v0, v1, v2 int32
 }
 
-// triHeap is a max-heap on key; ties resolve by the deterministic push order of the refinement.
-type triHeap []badTri
+// Priority buckets: the upper half holds too-large triangles by the logarithm of how much too large they are,
+// the lower half skinny triangles by the cosine of their smallest angle; higher buckets are served first.
+const (
+	numBuckets  = 4096
+	sizeBuckets = numBuckets / 2
+)
 
-func (h *triHeap) push(x badTri) {
-	*h = append(*h, x)
-	a := *h
-	i := len(a) - 1
-	for i > 0 {
-		p := (i - 1) / 2
-		if a[p].key >= a[i].key {
-			break
-		}
-		a[p], a[i] = a[i], a[p]
-		i = p
-	}
+// badQueue is a bucketed priority queue of bad triangles (as in Shewchuk's Triangle): O(1) push and amortised
+// O(1) pop, exact order only up to the bucket width, which is all refinement needs. Within a bucket the most
+// recently queued triangle comes first, which keeps the working set small. The order is deterministic.
+type badQueue struct {
+	b   [numBuckets][]badTri
+	top int // no bucket above top is non-empty
+	n   int
 }
 
-func (h *triHeap) pop() badTri {
-	a := *h
-	top := a[0]
-	n := len(a) - 1
-	a[0] = a[n]
-	a = a[:n]
-	i := 0
-	for {
-		l := 2*i + 1
-		if l >= n {
-			break
-		}
-		c := l
-		if r := l + 1; r < n && a[r].key > a[l].key {
-			c = r
-		}
-		if a[i].key >= a[c].key {
-			break
-		}
-		a[i], a[c] = a[c], a[i]
-		i = c
+func (q *badQueue) push(x badTri, bucket int) {
+	q.b[bucket] = append(q.b[bucket], x)
+	q.top = max(q.top, bucket)
+	q.n++
+}
+
+// pop removes and returns a triangle of the highest non-empty bucket; q must not be empty.
+func (q *badQueue) pop() (badTri, int) {
+	for len(q.b[q.top]) == 0 {
+		q.top--
 	}
-	*h = a
-	return top
+	l := q.b[q.top]
+	x := l[len(l)-1]
+	q.b[q.top] = l[:len(l)-1]
+	q.n--
+	return x, q.top
+}
+
+// sizeBucket maps how much too large a triangle is (ratio > 1) to a bucket: by binary exponent and the top
+// four mantissa bits, so sixteen buckets per doubling.
+func sizeBucket(ratio float64) int {
+	k := int(math.Float64bits(ratio)>>48) - int(math.Float64bits(1)>>48)
+	return sizeBuckets + max(0, min(numBuckets-sizeBuckets-1, k))
 }
 
 // refiner carries the refinement criteria.
@@ -75,12 +71,13 @@ type refiner struct {
 	cos2    float64 // squared cosine of the minimum angle; 0 disables angle refinement
 	size    SizeFunc
 	maxArea float64
-	heap    triHeap
+	cosMin  float64 // cosine of the minimum angle
+	queue   *badQueue
 	stuck   map[[2]int32]bool // subsegments too short to split in floating point
 }
 
 func (b *builder) refine(opt Options) error {
-	r := &refiner{b: b, size: opt.Size, maxArea: opt.MaxArea, stuck: map[[2]int32]bool{}}
+	r := &refiner{b: b, size: opt.Size, maxArea: opt.MaxArea, stuck: map[[2]int32]bool{}, queue: new(badQueue)}
 	ang := opt.MinAngle
 	if ang == 0 {
 		ang = DefaultMinAngle
@@ -91,6 +88,7 @@ func (b *builder) refine(opt Options) error {
 		}
 		c := math.Cos(ang * math.Pi / 180)
 		r.cos2 = c * c
+		r.cosMin = c
 	}
 	maxPts := opt.MaxPoints
 	if maxPts <= 0 {
@@ -122,21 +120,20 @@ func (b *builder) refine(opt Options) error {
 			r.splitSeg(e[0], e[1])
 			continue
 		}
-		if len(r.heap) == 0 {
+		if r.queue.n == 0 {
 			break
 		}
-		it := r.heap.pop()
+		it, bucket := r.queue.pop()
 		t := it.t
 		if !b.alive(t) || b.tv[3*t] != it.v0 || b.tv[3*t+1] != it.v1 || b.tv[3*t+2] != it.v2 {
 			continue
 		}
-		r.splitTri(it)
+		r.splitTri(it, bucket)
 	}
 	return nil
 }
 
-// check queues t if it is bad: key > 2 for triangles too large (largest first), key in (0, 1] for skinny ones
-// (worst first), so size is fixed before shape.
+// check queues t if it is bad: triangles too large first (largest first), then skinny ones (worst first).
 func (r *refiner) check(t int32) {
 	b := r.b
 	v0, v1, v2 := b.tv[3*t], b.tv[3*t+1], b.tv[3*t+2]
@@ -156,7 +153,7 @@ func (r *refiner) check(t int32) {
 		}
 	}
 	if key > 0 {
-		r.heap.push(badTri{key + 1, t, v0, v1, v2})
+		r.queue.push(badTri{t, v0, v1, v2}, sizeBucket(key))
 		return
 	}
 	if r.cos2 == 0 {
@@ -179,7 +176,8 @@ func (r *refiner) check(t int32) {
 	if r.exempt(t, i) {
 		return
 	}
-	r.heap.push(badTri{d / math.Sqrt(la*lb), t, v0, v1, v2})
+	cos := d / math.Sqrt(la*lb)
+	r.queue.push(badTri{t, v0, v1, v2}, max(0, min(sizeBuckets-1, int((cos-r.cosMin)/(1-r.cosMin)*sizeBuckets))))
 }
 
 // exempt reports whether skinny triangle t, with its smallest angle at corner i, must be left alone.
@@ -277,7 +275,7 @@ func (r *refiner) splitSeg(a, c int32) bool {
 // that stand in its way: the one that blocks the walk from the triangle to its circumcentre (the centre lies
 // beyond it, or on it), or those whose diametral circles the centre would encroach. The triangle is queued
 // again only when some vertex was inserted, so every retry is paid for by progress and refinement ends.
-func (r *refiner) splitTri(it badTri) {
+func (r *refiner) splitTri(it badTri, bucket int) {
 	b := r.b
 	t := it.t
 	p0, p1, p2 := b.pts[it.v0], b.pts[it.v1], b.pts[it.v2]
@@ -293,7 +291,7 @@ func (r *refiner) splitTri(it badTri) {
 		if loc == locBlocked || b.tc[3*tt+k] >= 0 {
 			u, v := b.tv[3*tt+k], b.tv[3*tt+int32(nxt[k])]
 			if !r.stuck[[2]int32{u, v}] && r.splitSeg(u, v) {
-				r.requeue(it)
+				r.requeue(it, bucket)
 			}
 			return
 		}
@@ -317,15 +315,15 @@ func (r *refiner) splitTri(it badTri) {
 	// Keep only what the splits themselves found encroached.
 	b.enc = b.enc[:n0+copy(b.enc[n0:], b.enc[n1:])]
 	if split {
-		r.requeue(it)
+		r.requeue(it, bucket)
 	}
 }
 
-// requeue queues it again if its triangle is still there, with its key recomputed by check.
-func (r *refiner) requeue(it badTri) {
+// requeue queues it again, in the same bucket, if its triangle is still there.
+func (r *refiner) requeue(it badTri, bucket int) {
 	b := r.b
 	if t := it.t; b.alive(t) && b.tv[3*t] == it.v0 && b.tv[3*t+1] == it.v1 && b.tv[3*t+2] == it.v2 {
-		r.heap.push(it)
+		r.queue.push(it, bucket)
 	}
 }
 

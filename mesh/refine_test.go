@@ -108,3 +108,24 @@ func TestPinchedDomain(t *testing.T) {
 		}
 	}
 }
+
+// TestCheckSegmentsGaps: a segment that leaves the domain and comes back (here from one square to another
+// through their corners) has a gap where it is outside, which is fine; an Edges entry missing inside the
+// domain must still be reported.
+func TestCheckSegmentsGaps(t *testing.T) {
+	g := polygon(PSLG{}, 1, square(0, 0, 1)...)
+	g = polygon(g, 2, square(2, 2, 1)...)
+	g.Points = append(g.Points, Point{0.5, 0.5}, Point{2.5, 2.5})
+	g.Segments = append(g.Segments, Segment{A: 8, B: 9, Tag: 7}) // through the corners (1,1) and (2,2)
+	m := mustMesh(t, g, Options{MaxArea: 0.05})
+	for i, e := range m.Edges {
+		if e.Tag == 7 {
+			m.Edges = append(m.Edges[:i:i], m.Edges[i+1:]...)
+			if err := m.CheckSegments(g); err == nil {
+				t.Fatal("CheckSegments accepted a segment with an inner edge missing from Edges")
+			}
+			return
+		}
+	}
+	t.Fatal("no edge with tag 7")
+}

@@ -36,7 +36,7 @@ var ErrTooManyPoints = errors.New("mesh: refinement exceeded the point limit")
 // Delaunay refinement with concentric-shell segment splitting and the Miller–Pav–Walkington exemption at small
 // input angles).
 //
-// Guarantees on success: triangles are counter-clockwise; every input segment is a union of mesh edges, listed
+// Guarantees on success: triangles are counter-clockwise; every input segment, where it lies in the domain, is a union of mesh edges, listed
 // in Edges with the segment's Tag (M = -1); triangles outside the outermost closed boundary or reachable from a
 // hole are removed; Tags come from the region seeds (0 where none reached). Every triangle's smallest angle is
 // at least MinAngle except where a smaller input angle forces it; every triangle's longest edge is at most
