@@ -200,8 +200,8 @@ func Analyze(sol *fem.Solution, opt Options) (*Result, error) {
 			return
 		}
 		pr, pw := &res.Parts[pi], parts[pi]
-		pr.ForceZ -= real(q.J*cmplx.Conj(q.Br)) * q.Weight
-		pr.ForceR += real(q.J*cmplx.Conj(q.Bz)) * q.Weight
+		pr.ForceZ += lorentzFz(q)
+		pr.ForceR += lorentzFr(q)
 		pr.peak(p, q.R, q.Z)
 		if pw.o.distWithin(pointRZ(q.R, q.Z), pw.delta) <= pw.delta {
 			skin[pi] += p * q.Weight

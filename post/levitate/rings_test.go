@@ -9,6 +9,7 @@ import (
 
 	"eddyrz/fem"
 	"eddyrz/geometry"
+	"eddyrz/post"
 	"eddyrz/post/study"
 )
 
@@ -103,8 +104,8 @@ current = "%g A"
 			if err != nil {
 				t.Fatal(err)
 			}
-			fs := RegionForceZ(self, tag)
-			got := RegionForceZ(both, tag) - fs
+			fs := post.RegionForceZ(self, tag)
+			got := post.RegionForceZ(both, tag) - fs
 			const h = 1e-6
 			dM := (maxwellM(c.a, c.b, c.d+h) - maxwellM(c.a, c.b, c.d-h)) / (2 * h)
 			want := c.i1 * c.i2 * dM
