@@ -59,6 +59,13 @@ func (b *builder) allocTri() int32 {
 		return t
 	}
 	t := int32(len(b.tag))
+	if len(b.tag) == cap(b.tag) {
+		// Double explicitly: append grows large slices by only 1.25×, which copies (and page-faults)
+		// the triangle arrays several times over in a million-triangle mesh.
+		n := 2*len(b.tag) + 64
+		b.tv, b.tn, b.tc = reserve(b.tv, 3*n), reserve(b.tn, 3*n), reserve(b.tc, 3*n)
+		b.tag, b.mark = reserve(b.tag, n), reserve(b.mark, n)
+	}
 	b.tv = append(b.tv, -1, -1, -1)
 	b.tn = append(b.tn, -1, -1, -1)
 	b.tc = append(b.tc, -1, -1, -1)
@@ -87,8 +94,23 @@ func (b *builder) nextStamp() uint32 {
 	return b.stamp
 }
 
+// reserve returns s with capacity at least n (same length and contents).
+func reserve[T any](s []T, n int) []T {
+	if cap(s) >= n {
+		return s
+	}
+	ns := make([]T, len(s), n)
+	copy(ns, s)
+	return ns
+}
+
 // addVertex appends p and returns its index.
 func (b *builder) addVertex(p Point, seg int32) int32 {
+	if len(b.pts) == cap(b.pts) {
+		n := 2*len(b.pts) + 64
+		b.pts, b.vseg, b.vt = reserve(b.pts, n), reserve(b.vseg, n), reserve(b.vt, n)
+		b.vlink, b.vstamp = reserve(b.vlink, n), reserve(b.vstamp, n)
+	}
 	b.pts = append(b.pts, p)
 	b.vseg = append(b.vseg, seg)
 	b.vt = append(b.vt, -1)
