@@ -60,10 +60,10 @@ Temperatures are °C in the outputs; currents are rms. Nothing is written when t
 	f.StringVarP(&o.out, "out", "o", "", "directory for reports and plots (default out/JOBNAME)")
 	f.BoolVar(&o.asJSON, "json", false, "print the report as JSON on stdout instead of the summary")
 	f.BoolVar(&o.holdCurrent, "hold-current", false, "keep a power-driven coil's starting current instead of its target power")
-	f.Float64Var(&o.duration, "duration", 0, "run this many seconds instead of the job's stop condition")
+	f.Var(newQuantityFlag(geometry.Time, &o.duration), "duration", "run this long instead of the job's stop condition, e.g. \"90 s\" or \"2 min\"")
 	f.Float64Var(&o.tolerance, "tolerance", 0, "relative power change that triggers a field re-solve (default: the job's)")
-	f.Float64Var(&o.maxTime, "max-time", 0, "give up on a stop temperature after this many simulated seconds (default 3600)")
-	f.Float64SliceVar(&o.maps, "maps", nil, "times in seconds for temperature maps (default: four spread over the run)")
+	f.Var(newQuantityFlag(geometry.Time, &o.maxTime), "max-time", "give up on a stop temperature after this much simulated time (default \"1 h\")")
+	f.Var(newQuantityListFlag(geometry.Time, &o.maps), "maps", "times for temperature maps, e.g. \"10 s, 30 s, 1 min\" (default: four spread over the run)")
 	f.StringVar(&o.stopProbe, "stop-probe", "", "stop when this probe, not the stop part's coldest point, reaches the stop temperature")
 	return c
 }

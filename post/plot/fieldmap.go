@@ -184,7 +184,7 @@ func FieldMap(m *mesh.Mesh, spec FieldSpec) (*Figure, error) {
 		fig.Plot.Add(fl)
 	}
 	if len(spec.Outlines) > 0 {
-		ol := &polylines{style: draw.LineStyle{Color: color.NRGBA{R: 245, G: 245, B: 245, A: 255}, Width: vg.Points(1.0)}}
+		ol := &polylines{style: draw.LineStyle{Color: color.NRGBA{R: 175, G: 175, B: 175, A: 255}, Width: vg.Points(1.0)}}
 		ol.add(spec.Outlines)
 		fig.Plot.Add(ol)
 	}
