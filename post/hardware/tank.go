@@ -121,11 +121,29 @@ func (l *loadImpedance) at(f float64) (evaluation, error) {
 		return evaluation{}, err
 	}
 	l.solves++
+	return l.remember(s), nil
+}
+
+// remember records what the solution s tells about its frequency.
+func (l *loadImpedance) remember(s *study.Solution) evaluation {
 	c := s.Result.Coils[0]
 	e := evaluation{Z: c.Impedance, Terminal: c.Power, Target: l.target(s), CoilLoss: c.Loss}
 	e.Efficiency = e.Target / e.Terminal
-	l.seen[f] = e
-	return e, nil
+	l.seen[s.Result.Frequency] = e
+	return e
+}
+
+// matchesJob reports whether the state puts every part at the temperature the job itself gives it.
+func (st LoadState) matchesJob(job *geometry.Job) bool {
+	if len(st.Temperature) != len(job.Parts) {
+		return false
+	}
+	for i, p := range job.Parts {
+		if p.Temperature != st.Temperature[i] {
+			return false
+		}
+	}
+	return true
 }
 
 // impedance is the circuit.ImpedanceFunc of the load.
@@ -236,7 +254,7 @@ func StudyTank(md *study.Model, sol *study.Solution) (*TankStudy, error) {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			out[i], errs[i] = ts.state(md, st)
+			out[i], errs[i] = ts.state(md, sol, st)
 		}()
 	}
 	wg.Wait()
@@ -266,8 +284,12 @@ func StudyTank(md *study.Model, sol *study.Solution) (*TankStudy, error) {
 }
 
 // state runs the resonance search and the duty for one load state.
-func (ts *TankStudy) state(md *study.Model, st LoadState) (TankState, error) {
+func (ts *TankStudy) state(md *study.Model, sol *study.Solution, st LoadState) (TankState, error) {
 	load := newLoadImpedance(md, st, partPower(ts.TargetPart))
+	if sol != nil && st.matchesJob(md.Job) && sol.Result.Frequency == md.Job.Frequency {
+		// The job's own solution is this state at the search's first frequency: one field solve saved.
+		load.remember(sol)
+	}
 	tank := ts.Tank
 	tank.Coil = load.impedance
 	res, err := tank.ResonanceWithin(md.Job.Frequency, ResonanceTol)
