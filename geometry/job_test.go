@@ -85,13 +85,13 @@ func TestExamplesRead(t *testing.T) {
 		t.Errorf("levitation section: %+v", lev.Levitation)
 	}
 	b := readExample(t, "billet-heater")
-	if b.Tank == nil || !b.Tank.Parallel || b.Tank.Capacitance != 280e-6 || b.Cooling == nil || b.Cooling.Pressure != 4e5 {
+	if b.Tank == nil || !b.Tank.Parallel || b.Tank.Capacitance != 1250e-6 || b.Cooling == nil || b.Cooling.Pressure != 4e5 {
 		t.Errorf("tank/cooling: %+v %+v", b.Tank, b.Cooling)
 	}
 	if h := b.Heating; h == nil || h.StopProbe != "core" || h.StopPart != "" || math.Abs(h.StopTemperature-1423.15) > 1e-9 || len(h.Probes) != 2 {
 		t.Errorf("heating: %+v", b.Heating)
 	}
-	if b.Coils[0].Drive != DrivePower || b.Coils[0].Into != "bar" || b.Coils[0].Value != 60e3 {
+	if b.Coils[0].Drive != DrivePower || b.Coils[0].Into != "bar" || b.Coils[0].Value != 25e3 {
 		t.Errorf("drive: %+v", b.Coils[0])
 	}
 	c := readExample(t, "crucible-melt")

@@ -14,7 +14,9 @@ type quantityFlag struct {
 	s   string
 }
 
-func newQuantityFlag(dim geometry.Dim, v *float64) *quantityFlag { return &quantityFlag{dim: dim, v: v} }
+func newQuantityFlag(dim geometry.Dim, v *float64) *quantityFlag {
+	return &quantityFlag{dim: dim, v: v}
+}
 
 func (q *quantityFlag) String() string { return q.s }
 func (q *quantityFlag) Type() string   { return "quantity" }

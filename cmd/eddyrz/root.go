@@ -32,7 +32,7 @@ local electrical codes and licensed practice.`,
 	root.SetOut(stdout)
 	root.SetErr(stderr)
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error { return &flagError{err} })
-	root.AddCommand(newVersionCmd(), newMeshCmd(stdout), newSolveCmd(stdout), newHeatCmd(stdout, stderr), newLevitateCmd(stdout))
+	root.AddCommand(newVersionCmd(), newMeshCmd(stdout), newSolveCmd(stdout), newHeatCmd(stdout, stderr), newLevitateCmd(stdout), newSweepCmd(stdout))
 	return root
 }
 

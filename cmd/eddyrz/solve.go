@@ -9,6 +9,7 @@ import (
 
 	"eddyrz/geometry"
 	"eddyrz/post"
+	"eddyrz/post/hardware"
 	"eddyrz/post/plot"
 	"eddyrz/post/study"
 	"eddyrz/post/vtk"
@@ -67,8 +68,17 @@ func runSolve(o *solveOptions) error {
 		return err
 	}
 	rep := s.Report()
+	hw, err := hardware.Evaluate(s.Model, s)
+	if err != nil {
+		return err
+	}
+	full := solveReport{Report: rep}
+	if hw != nil {
+		full.Tank, full.Cooling = hw.Tank, hw.Cooling
+		rep.Notes = append(rep.Notes, hw.Notes...)
+	}
 	out := newOutputs(defaultOut(o.job, o.out))
-	if err := addSolveFiles(out, s, rep, o); err != nil {
+	if err := addSolveFiles(out, s, &full, o); err != nil {
 		return err
 	}
 	if o.exportMatrix != "" {
@@ -83,19 +93,39 @@ func runSolve(o *solveOptions) error {
 		return err
 	}
 	if o.asJSON {
-		return rep.WriteJSON(o.stdout)
+		return writeJSON(o.stdout, &full)
 	}
-	if err := rep.WriteText(o.stdout); err != nil {
+	if err := full.writeText(o.stdout); err != nil {
 		return err
 	}
 	fmt.Fprintf(o.stdout, "\nfiles in %s: %v\n", out.dir, out.names())
 	return nil
 }
 
+// solveReport is the solve's report joined with the tank and cooling studies of a job that asks for them.
+type solveReport struct {
+	*post.Report
+	Tank    *hardware.TankReport    `json:"tank,omitempty"`
+	Cooling *hardware.CoolingReport `json:"cooling,omitempty"`
+}
+
+// writeText writes the field summary, then the tank and cooling studies.
+func (r *solveReport) writeText(w io.Writer) error {
+	if err := r.Report.WriteText(w); err != nil {
+		return err
+	}
+	if r.Tank == nil && r.Cooling == nil {
+		return nil
+	}
+	fmt.Fprintln(w)
+	return (&hardware.Report{Tank: r.Tank, Cooling: r.Cooling}).WriteText(w)
+}
+
 // addSolveFiles registers the report, tables, plots and optional VTK file of a solve.
-func addSolveFiles(out *outputs, s *study.Solution, rep *post.Report, o *solveOptions) error {
-	out.addWriter("report.json", rep.WriteJSON)
-	out.addWriter("summary.txt", rep.WriteText)
+func addSolveFiles(out *outputs, s *study.Solution, full *solveReport, o *solveOptions) error {
+	rep := full.Report
+	out.addJSON("report.json", full)
+	out.addWriter("summary.txt", full.writeText)
 	out.addWriter("turns.csv", rep.WriteTurnsCSV)
 	out.addWriter("parts.csv", rep.WritePartsCSV)
 	joule, flux, err := s.Figures(study.FigureOptions{Log: !o.linear})
