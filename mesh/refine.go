@@ -72,7 +72,6 @@ type refiner struct {
 	size    SizeFunc
 	maxArea float64
 	cosMin  float64 // cosine of the minimum angle
-	offK    float64 // off-centre distance from the shortest edge's midpoint, per unit of that edge's length
 	queue   *badQueue
 	stuck   map[[2]int32]bool // subsegments too short to split in floating point
 }
@@ -90,10 +89,6 @@ func (b *builder) refine(opt Options) error {
 		c := math.Cos(ang * math.Pi / 180)
 		r.cos2 = c * c
 		r.cosMin = c
-		// Üngör's off-centre: the apex of the isosceles triangle on the shortest edge whose apex angle is the
-		// minimum angle lies at (1/2)/tan(θ/2) edge lengths from the edge; 0.95 of it, as Triangle does,
-		// leaves a margin so the new triangle is not itself at the bound.
-		r.offK = 0.95 * 0.5 * math.Sqrt((1+c)/(1-c))
 	}
 	maxPts := opt.MaxPoints
 	if maxPts <= 0 {
@@ -288,9 +283,6 @@ func (r *refiner) splitTri(it badTri, bucket int) {
 	if !ok {
 		return
 	}
-	if bucket < sizeBuckets {
-		c = r.offCentre(p0, p1, p2, c)
-	}
 	tt, loc, k := b.walk(c, t, true)
 	switch loc {
 	case locVertex:
@@ -333,30 +325,6 @@ func (r *refiner) requeue(it badTri, bucket int) {
 	if t := it.t; b.alive(t) && b.tv[3*t] == it.v0 && b.tv[3*t+1] == it.v1 && b.tv[3*t+2] == it.v2 {
 		r.queue.push(it, bucket)
 	}
-}
-
-// offCentre returns, for a skinny triangle, the point on the bisector of its shortest edge at distance offK
-// times that edge's length from the edge's midpoint, when it is nearer than the circumcentre c (A. Üngör,
-// "Off-centers: a new type of Steiner points for computing size-optimal quality-guaranteed Delaunay
-// triangulations", LATIN 2004); otherwise c. The off-centre lies inside the circumcircle, so inserting it
-// still destroys the triangle, and it makes fewer, better-placed vertices than circumcentres.
-func (r *refiner) offCentre(p0, p1, p2, c Point) Point {
-	// Shortest edge p→q.
-	p, q := p0, p1
-	if l := dist2(p1, p2); l < dist2(p, q) {
-		p, q = p1, p2
-	}
-	if l := dist2(p2, p0); l < dist2(p, q) {
-		p, q = p2, p0
-	}
-	m := Point{(p.X + q.X) / 2, (p.Y + q.Y) / 2}
-	dc := math.Sqrt(dist2(m, c))
-	d := r.offK * math.Sqrt(dist2(p, q))
-	if dc <= d || dc == 0 {
-		return c
-	}
-	f := d / dc
-	return Point{m.X + f*(c.X-m.X), m.Y + f*(c.Y-m.Y)}
 }
 
 // circumcenter returns the centre of the circle through a, b, c; false for a degenerate triangle.
