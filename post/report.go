@@ -211,33 +211,38 @@ func (rep *Report) WriteJSON(w io.Writer) error {
 func (rep *Report) WriteText(w io.Writer) error {
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	p := func(format string, a ...any) { fmt.Fprintf(tw, format+"\n", a...) }
-	p("frequency\t%s Hz", gnum(rep.FrequencyHz))
+	f := func(x Num, unit string) string { return SI(float64(x), unit) }
+	mm := func(x Num) string { return fmt.Sprintf("%.2f mm", float64(x)*1e3) }
+	p("frequency\t%s", f(rep.FrequencyHz, "Hz"))
 	p("mesh\t%d nodes, %d triangles, %d unknowns", rep.Mesh.Nodes, rep.Mesh.Triangles, rep.Mesh.Unknowns)
 	for _, c := range rep.Coils {
 		p("coil %q\t", c.Name)
-		p("  current\t%s A rms", gnum(c.CurrentAbs))
-		p("  voltage\t%s V rms", gnum(c.VoltageAbs))
-		p("  impedance\t%s + j%s Ω", gnum(c.Impedance.Re), gnum(c.Impedance.Im))
-		p("  resistance, inductance\t%s Ω, %s H", gnum(c.Resistance), gnum(c.Inductance))
+		p("  current\t%s rms", f(c.CurrentAbs, "A"))
+		p("  terminal voltage\t%s rms", f(c.VoltageAbs, "V"))
+		p("  impedance\t%s %+.4g j Ω", gnum(c.Impedance.Re), float64(c.Impedance.Im))
+		p("  resistance, inductance\t%s, %s", f(c.Resistance, "Ω"), f(c.Inductance, "H"))
 		p("  quality factor, power factor\t%s, %s", gnum(c.QualityFactor), gnum(c.PowerFactor))
-		p("  power\t%s W (reactive %s var)", gnum(c.Power), gnum(c.ReactivePower))
-		p("  coil loss\t%s W in %d turn(s)", gnum(c.Loss), len(c.Turns))
+		p("  power at the terminals\t%s (reactive %s)", f(c.Power, "W"), f(c.ReactivePower, "var"))
+		p("  coil's own loss\t%s in %d turn(s)", f(c.Loss, "W"), len(c.Turns))
 	}
 	for _, q := range rep.Parts {
 		p("part %q\t", q.Name)
-		p("  power\t%s W", gnum(q.Power))
-		p("  axial force\t%s N (stress check %s N, rel. diff. %s)", gnum(q.ForceZ), gnum(q.ForceZStress), gnum(q.StressDiff))
+		p("  power\t%s", f(q.Power, "W"))
+		p("  axial force (volume)\t%s, up positive", f(q.ForceZ, "N"))
+		p("  axial force (stress)\t%s, rel. diff. %s", f(q.ForceZStress, "N"), gnum(q.StressDiff))
 		if q.StressNote != "" {
 			p("  stress check note\t%s", q.StressNote)
 		}
-		p("  peak power density\t%s W/m³ at r = %s m, z = %s m", gnum(q.PeakDensity), gnum(q.PeakAt[0]), gnum(q.PeakAt[1]))
-		p("  within one skin depth\t%s of the power (δ = %s m)", gnum(q.SkinShare), gnum(q.SkinDepth))
-		p("  bottom, middle, top third\t%s W, %s W, %s W", gnum(q.PowerThirds.Bottom), gnum(q.PowerThirds.Middle), gnum(q.PowerThirds.Top))
+		p("  peak power density\t%s at r = %s, z = %s", f(q.PeakDensity, "W/m³"), mm(q.PeakAt[0]), mm(q.PeakAt[1]))
+		p("  within one skin depth\t%.1f %% of the power (δ = %s)", 100*float64(q.SkinShare), mm(q.SkinDepth))
+		p("  bottom, middle, top third\t%s, %s, %s", f(q.PowerThirds.Bottom, "W"), f(q.PowerThirds.Middle, "W"), f(q.PowerThirds.Top, "W"))
 	}
-	p("efficiency (parts / coil terminals)\t%s", gnum(rep.Efficiency))
-	p("stored magnetic energy\t%s J", gnum(rep.StoredEnergy))
+	p("efficiency (parts / coil terminals)\t%.1f %%", 100*float64(rep.Efficiency))
+	p("stored magnetic energy\t%s", f(rep.StoredEnergy, "J"))
 	p("energy balance error\t%s", gnum(rep.BalanceError))
-	p("time\t%s s total", gnum(rep.Timing.Total))
+	p("time\t%.2f s (mesh %.2f, assemble %.2f, factor %.2f, solve %.2f, analyse %.2f)", float64(rep.Timing.Total),
+		float64(rep.Timing.Mesh), float64(rep.Timing.Assemble), float64(rep.Timing.Factor), float64(rep.Timing.Solve),
+		float64(rep.Timing.Analyze))
 	p("(currents and voltages are rms; powers and forces are time averages)")
 	for _, n := range rep.Notes {
 		p("note: %s", n)

@@ -126,7 +126,7 @@ func TestWriteText(t *testing.T) {
 		t.Fatal(err)
 	}
 	s := buf.String()
-	for _, want := range []string{"100 A rms", "W/m³", "800 W", "5000 Hz", "n/a", "rms", "caution:"} {
+	for _, want := range []string{"100 A rms", "W/m³", "800 W", "5 kHz", "n/a", "rms", "caution:"} {
 		if !strings.Contains(s, want) {
 			t.Errorf("text report lacks %q:\n%s", want, s)
 		}
