@@ -146,14 +146,23 @@ func (s *Solution) robinEnergy() float64 {
 	if !s.Outer.Robin {
 		return 0
 	}
+	var e float64
+	s.eachOuterPoint(func(r, ds float64, a complex128) {
+		e += 0.5 / (Mu0 * s.Outer.Radius) * sq(cmplx.Abs(a)) * ds
+	})
+	return e
+}
+
+// eachOuterPoint calls fn at the Gauss points of every far-boundary (OuterTag) edge with the radius r (m), the
+// weight ds of ∮ … 2πr dl (m²) and the solution's A there (Wb/m rms).
+func (s *Solution) eachOuterPoint(fn func(r, ds float64, a complex128)) {
 	m := s.Mesh
 	sh := make([]float64, 3)
-	var e float64
 	for _, ed := range m.Edges {
 		if ed.Tag != OuterTag {
 			continue
 		}
-		nd := []int32{ed.A, ed.B, ed.M}
+		nd := [3]int32{ed.A, ed.B, ed.M}
 		pa, pb := m.Nodes[ed.A], m.Nodes[ed.B]
 		length := math.Hypot(pb.X-pa.X, pb.Y-pa.Y)
 		for g, t := range gauss5.X {
@@ -163,10 +172,9 @@ func (s *Solution) robinEnergy() float64 {
 				a += s.A[nd[2]] * complex(sh[2], 0)
 			}
 			r := pa.X + t*(pb.X-pa.X)
-			e += 0.5 / (Mu0 * s.Outer.Radius) * sq(cmplx.Abs(a)) * gauss5.W[g] * length * 2 * math.Pi * r
+			fn(r, gauss5.W[g]*length*2*math.Pi*r, a)
 		}
 	}
-	return e
 }
 
 // Balance compares the complex power supplied, S = Σ_coils V I* plus what the applied field brings in through

@@ -228,27 +228,11 @@ func (a *Assembler) boundarySupply(w float64, s *Solution) complex128 {
 		}
 	}
 	if a.prob.Outer.Robin {
-		m := a.prob.Mesh
 		R := a.prob.Outer.Radius
-		sh := make([]float64, 3)
-		for _, e := range m.Edges {
-			if e.Tag != OuterTag {
-				continue
-			}
-			nd := []int32{e.A, e.B, e.M}
-			pa, pb := m.Nodes[e.A], m.Nodes[e.B]
-			length := math.Hypot(pb.X-pa.X, pb.Y-pa.Y)
-			for g, t := range gauss5.X {
-				edgeShape(a.order, t, sh)
-				av := s.A[nd[0]]*complex(sh[0], 0) + s.A[nd[1]]*complex(sh[1], 0)
-				if a.order == 2 {
-					av += s.A[nd[2]] * complex(sh[2], 0)
-				}
-				r := pa.X + t*(pb.X-pa.X)
-				f := 1.5 / Mu0 * (r / R) * gauss5.W[g] * length * 2 * math.Pi * r
-				sup += jw * av * cmplx.Conj(complex(f, 0)*a.prob.AppliedBz)
-			}
-		}
+		s.eachOuterPoint(func(r, ds float64, av complex128) {
+			f := 1.5 / Mu0 * (r / R) * ds
+			sup += jw * av * cmplx.Conj(complex(f, 0)*a.prob.AppliedBz)
+		})
 	}
 	return sup
 }
