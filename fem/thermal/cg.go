@@ -149,6 +149,9 @@ func (p *ic0) apply(z, r []float64) {
 	}
 }
 
+// preconditioner applies z = M⁻¹ r for an approximation M of the matrix.
+type preconditioner interface{ apply(z, r []float64) }
+
 // cgWork holds the vectors of a preconditioned conjugate-gradient solve.
 type cgWork struct {
 	r, z, p, q []float64
@@ -156,7 +159,7 @@ type cgWork struct {
 
 // pcg solves A x = b for symmetric positive definite A, starting from x, until ‖r‖₂ ≤ tol·‖b‖₂ or maxIter
 // iterations. It returns the iteration count and the final relative residual.
-func pcg(a *csr, pre *ic0, x, b []float64, tol float64, maxIter int, w *cgWork) (int, float64) {
+func pcg(a *csr, pre preconditioner, x, b []float64, tol float64, maxIter int, w *cgWork) (int, float64) {
 	n := a.n
 	if len(w.r) != n {
 		w.r, w.z, w.p, w.q = make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n)

@@ -69,6 +69,9 @@ type Solver struct {
 	a   *csr
 	pre ic0
 	cg  cgWork
+	// chol is a sparse Cholesky factor of a recent Newton matrix, the CG preconditioner while it keeps the
+	// iterations few (nil when the pattern could not be analysed: then IC(0) of every Newton matrix is used).
+	chol *cholesky
 
 	e, e0, t []float64 // node energy (J), initial node energy (J), temperature (K)
 	rate     []float64 // dE/dt of each node over the last step, W (the next step's predictor)
@@ -226,6 +229,14 @@ func NewSolver(m Model, T0 []float64) (*Solver, error) {
 				el.pos[3*a+b] = s.a.pos(el.n[a], el.n[b])
 			}
 		}
+	}
+
+	coords := make([][2]float64, n)
+	for i, v := range s.global {
+		coords[i] = [2]float64{msh.Nodes[v].X, msh.Nodes[v].Y}
+	}
+	if c, err := newCholesky(s.a, coords); err == nil {
+		s.chol = c
 	}
 
 	if err := s.setBoundary(m.Boundary); err != nil {
@@ -466,6 +477,40 @@ func (s *Solver) Step(dt float64, source []float64) (StepInfo, error) {
 	return info, nil
 }
 
+// linearSolve solves the Newton system s.a·y = s.r (from the y given) to the relative residual eta and
+// returns the CG iterations. The preconditioner is the Cholesky factor of an earlier Newton matrix while CG
+// converges within refactorAbove iterations with it; past that, the factor is redone from the current matrix
+// and CG goes on from where it stopped. Without a Cholesky analysis, or when a pivot fails, IC(0) of the current
+// matrix preconditions.
+func (s *Solver) linearSolve(eta float64) int {
+	maxIter := 10*len(s.y) + 100
+	if s.chol == nil {
+		s.pre.factor(s.a)
+		it, _ := pcg(s.a, &s.pre, s.y, s.r, eta, maxIter, &s.cg)
+		return it
+	}
+	total := 0
+	if s.chol.ok {
+		it, rel := pcg(s.a, s.chol, s.y, s.r, eta, refactorAbove, &s.cg)
+		total += it
+		if rel <= eta {
+			return total
+		}
+	}
+	var pre preconditioner = s.chol
+	if !s.chol.factor(s.a) {
+		s.pre.factor(s.a)
+		pre = &s.pre
+	}
+	it, _ := pcg(s.a, pre, s.y, s.r, eta, maxIter, &s.cg)
+	return total + it
+}
+
+// refactorAbove is the number of CG iterations with an earlier Newton matrix's Cholesky factor after which the
+// factor is redone from the current matrix: on 2D meshes a refactorisation costs about as much as that many
+// preconditioned iterations.
+const refactorAbove = 8
+
 // maxHalvings bounds how often a step that does not converge is split in two.
 const maxHalvings = 10
 
@@ -554,15 +599,13 @@ func (s *Solver) solve(dt float64) (StepInfo, error) {
 			restore()
 			return info, err
 		}
-		s.pre.factor(s.a)
 		for i := range s.y {
 			s.y[i] = 0
 			s.r[i] = -s.r[i]
 		}
 		// Inexact Newton: solve only as far as the next iterate can use (the residual test below is on R itself).
 		eta := math.Min(1e-2, math.Max(1e-14, 0.1*s.tol*scale/norm))
-		it, _ := pcg(s.a, &s.pre, s.y, s.r, eta, 10*len(s.y)+100, &s.cg)
-		info.CGIter += it
+		info.CGIter += s.linearSolve(eta)
 
 		// Update the energies along the Newton direction ΔE = C·y, halving the step while ‖R‖₁ does not fall.
 		alpha, tMax, change := 1.0, 0.0, 0.0
