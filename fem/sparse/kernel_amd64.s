@@ -1,60 +1,5 @@
 #include "textflag.h"
 
-// func cgemv4AVX2(d, a0, a1, a2, a3, w *complex128, n int)
-// d[i] −= w[0]·a0[i] + w[1]·a1[i] + w[2]·a2[i] + w[3]·a3[i] for i < n (n even), complex128 interleaved.
-// Each product sums Σ a·Re(w) and Σ swap(a)·Im(w) with FMAs and combines them with one add-subtract.
-TEXT ·cgemv4AVX2(SB), NOSPLIT, $0-56
-	MOVQ d+0(FP), DI
-	MOVQ a0+8(FP), SI
-	MOVQ a1+16(FP), R8
-	MOVQ a2+24(FP), R9
-	MOVQ a3+32(FP), R10
-	MOVQ w+40(FP), DX
-	MOVQ n+48(FP), CX
-	SHRQ $1, CX
-	JZ   done
-	VBROADCASTSD 0(DX), Y8
-	VBROADCASTSD 8(DX), Y9
-	VBROADCASTSD 16(DX), Y10
-	VBROADCASTSD 24(DX), Y11
-	VBROADCASTSD 32(DX), Y12
-	VBROADCASTSD 40(DX), Y13
-	VBROADCASTSD 48(DX), Y14
-	VBROADCASTSD 56(DX), Y7
-
-loop:
-	VMOVUPD     (SI), Y0
-	VMULPD      Y8, Y0, Y4
-	VPERMILPD   $5, Y0, Y0
-	VMULPD      Y9, Y0, Y5
-	VMOVUPD     (R8), Y1
-	VFMADD231PD Y10, Y1, Y4
-	VPERMILPD   $5, Y1, Y1
-	VFMADD231PD Y11, Y1, Y5
-	VMOVUPD     (R9), Y2
-	VFMADD231PD Y12, Y2, Y4
-	VPERMILPD   $5, Y2, Y2
-	VFMADD231PD Y13, Y2, Y5
-	VMOVUPD     (R10), Y3
-	VFMADD231PD Y14, Y3, Y4
-	VPERMILPD   $5, Y3, Y3
-	VFMADD231PD Y7, Y3, Y5
-	VADDSUBPD   Y5, Y4, Y4
-	VMOVUPD     (DI), Y6
-	VSUBPD      Y4, Y6, Y6
-	VMOVUPD     Y6, (DI)
-	ADDQ        $32, SI
-	ADDQ        $32, R8
-	ADDQ        $32, R9
-	ADDQ        $32, R10
-	ADDQ        $32, DI
-	DECQ        CX
-	JNZ         loop
-	VZEROUPPER
-
-done:
-	RET
-
 // func cpuid(eaxArg, ecxArg uint32) (eax, ebx, ecx, edx uint32)
 TEXT ·cpuid(SB), NOSPLIT, $0-24
 	MOVL eaxArg+0(FP), AX
@@ -71,4 +16,113 @@ TEXT ·xgetbv(SB), NOSPLIT, $0-4
 	MOVL $0, CX
 	XGETBV
 	MOVL AX, eax+0(FP)
+	RET
+
+// func ctile4x3AVX2(a *complex128, lda int, w *complex128, ldw int, c0, c1, c2 *complex128, k, nb int)
+// For nb blocks of 4 rows (block b: rows 4b..4b+3 of a and of the columns c0, c1, c2) and j < 3:
+//   c_j[i] −= Σ_{p<k} a[p·lda + i] · w[j·ldw + p]   (complex128 interleaved; k ≥ 1)
+// Each product is accumulated as Σ a·Re(w) and Σ a·Im(w) with FMAs (zeroed accumulators, p ascending); the
+// halves are combined once at the end as (rr − ii, ri + ir), exactly as tileEntry does.
+// Registers: Y0–Y11 accumulators (column j: Y(4j), Y(4j+1) for a·Re(w) over rows 0–1, 2–3; Y(4j+2), Y(4j+3)
+// for a·Im(w)), Y12–Y13 the four a values, Y14–Y15 broadcast Re(w), Im(w).
+TEXT ·ctile4x3AVX2(SB), NOSPLIT, $0-72
+	MOVQ a+0(FP), SI
+	MOVQ lda+8(FP), R8
+	SHLQ $4, R8
+	MOVQ w+16(FP), DX
+	MOVQ ldw+24(FP), R9
+	SHLQ $4, R9
+	LEAQ (R9)(R9*1), R10
+	MOVQ c0+32(FP), R11
+	MOVQ c1+40(FP), R12
+	MOVQ c2+48(FP), R13
+	MOVQ k+56(FP), R14
+	MOVQ nb+64(FP), DI
+	TESTQ DI, DI
+	JZ   tdone
+
+tblock:
+	VXORPD Y0, Y0, Y0
+	VXORPD Y1, Y1, Y1
+	VXORPD Y2, Y2, Y2
+	VXORPD Y3, Y3, Y3
+	VXORPD Y4, Y4, Y4
+	VXORPD Y5, Y5, Y5
+	VXORPD Y6, Y6, Y6
+	VXORPD Y7, Y7, Y7
+	VXORPD Y8, Y8, Y8
+	VXORPD Y9, Y9, Y9
+	VXORPD Y10, Y10, Y10
+	VXORPD Y11, Y11, Y11
+	MOVQ SI, AX
+	MOVQ DX, BX
+	MOVQ R14, CX
+
+tloop:
+	VMOVUPD (AX), Y12
+	VMOVUPD 32(AX), Y13
+	VBROADCASTSD (BX), Y14
+	VBROADCASTSD 8(BX), Y15
+	VFMADD231PD Y14, Y12, Y0
+	VFMADD231PD Y14, Y13, Y1
+	VFMADD231PD Y15, Y12, Y2
+	VFMADD231PD Y15, Y13, Y3
+	VBROADCASTSD (BX)(R9*1), Y14
+	VBROADCASTSD 8(BX)(R9*1), Y15
+	VFMADD231PD Y14, Y12, Y4
+	VFMADD231PD Y14, Y13, Y5
+	VFMADD231PD Y15, Y12, Y6
+	VFMADD231PD Y15, Y13, Y7
+	VBROADCASTSD (BX)(R10*1), Y14
+	VBROADCASTSD 8(BX)(R10*1), Y15
+	VFMADD231PD Y14, Y12, Y8
+	VFMADD231PD Y14, Y13, Y9
+	VFMADD231PD Y15, Y12, Y10
+	VFMADD231PD Y15, Y13, Y11
+	ADDQ R8, AX
+	ADDQ $16, BX
+	DECQ CX
+	JNZ  tloop
+
+	// (rr, ri) addsub swap(ir, ii) = (rr − ii, ri + ir); then c −= that.
+	VPERMILPD $5, Y2, Y2
+	VADDSUBPD Y2, Y0, Y0
+	VPERMILPD $5, Y3, Y3
+	VADDSUBPD Y3, Y1, Y1
+	VMOVUPD   (R11), Y12
+	VSUBPD    Y0, Y12, Y12
+	VMOVUPD   Y12, (R11)
+	VMOVUPD   32(R11), Y13
+	VSUBPD    Y1, Y13, Y13
+	VMOVUPD   Y13, 32(R11)
+	VPERMILPD $5, Y6, Y6
+	VADDSUBPD Y6, Y4, Y4
+	VPERMILPD $5, Y7, Y7
+	VADDSUBPD Y7, Y5, Y5
+	VMOVUPD   (R12), Y12
+	VSUBPD    Y4, Y12, Y12
+	VMOVUPD   Y12, (R12)
+	VMOVUPD   32(R12), Y13
+	VSUBPD    Y5, Y13, Y13
+	VMOVUPD   Y13, 32(R12)
+	VPERMILPD $5, Y10, Y10
+	VADDSUBPD Y10, Y8, Y8
+	VPERMILPD $5, Y11, Y11
+	VADDSUBPD Y11, Y9, Y9
+	VMOVUPD   (R13), Y12
+	VSUBPD    Y8, Y12, Y12
+	VMOVUPD   Y12, (R13)
+	VMOVUPD   32(R13), Y13
+	VSUBPD    Y9, Y13, Y13
+	VMOVUPD   Y13, 32(R13)
+
+	ADDQ $64, SI
+	ADDQ $64, R11
+	ADDQ $64, R12
+	ADDQ $64, R13
+	DECQ DI
+	JNZ  tblock
+	VZEROUPPER
+
+tdone:
 	RET

@@ -4,4 +4,6 @@ package sparse
 
 const hasAVX2FMA = false
 
-func gemv4(d, a0, a1, a2, a3 []complex128, w []complex128) { gemv4Go(d, a0, a1, a2, a3, w) }
+func ctile4x3AVX2(a *complex128, lda int, w *complex128, ldw int, c0, c1, c2 *complex128, k, nb int) {
+	panic("sparse: no vector kernel on this architecture")
+}

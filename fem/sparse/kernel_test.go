@@ -6,59 +6,149 @@ import (
 	"testing"
 )
 
-// BenchmarkKernel times the rank-update kernel gemvNeg on a 256-row tile with a 32-column panel, the shape
-// rankUpdate feeds it; the metric is complex multiply-adds per second.
+// BenchmarkKernel times the rank-update tile kernel on a panelWidth-wide panel and the given number of rows,
+// three target columns; the metric is complex multiply-adds per second.
 func BenchmarkKernel(b *testing.B) {
 	for _, rows := range []int{16, 64, 256} {
 		b.Run(fmt.Sprintf("rows=%d", rows), func(b *testing.B) {
-			m, w := rows, make([]complex128, panelWidth)
-			L := make([]complex128, m*panelWidth)
+			m, k := rows, panelWidth
+			L := make([]complex128, m*k)
 			for i := range L {
 				L[i] = complex(float64(i%7), 1)
 			}
-			for i := range w {
-				w[i] = complex(1e-9, float64(i))
+			W := make([]complex128, tileCols*k)
+			for i := range W {
+				W[i] = complex(1e-9, float64(i))
 			}
-			d := make([]complex128, rows)
+			var c [3][]complex128
+			for j := range c {
+				c[j] = make([]complex128, rows)
+			}
 			b.ReportAllocs()
 			b.ResetTimer()
 			for i := 0; i < b.N; i++ {
-				gemvNeg(d, L, m, 0, w)
+				tile4x3(L, 0, m, W, 0, k, c, [3]int{}, rows/tileRows)
 			}
-			b.ReportMetric(float64(rows*panelWidth)*float64(b.N)/b.Elapsed().Seconds()/1e9, "Gcmadd/s")
+			b.ReportMetric(float64(rows*k*tileCols)*float64(b.N)/b.Elapsed().Seconds()/1e9, "Gcmadd/s")
 		})
 	}
 }
 
-// TestGemv4: the vector kernel (when present) agrees with the portable loop to rounding, for even and odd
-// lengths, and the portable loop matches a plain complex sum.
-func TestGemv4(t *testing.T) {
+// TestTile4x3: the tile kernel agrees bitwise with its portable form (same fused operations per entry) and to
+// rounding with a plain complex sum, for several panel widths and row-block counts, leaving the entries around
+// the tile untouched.
+func TestTile4x3(t *testing.T) {
 	t.Logf("AVX2+FMA kernel: %v", hasAVX2FMA)
-	for _, n := range []int{0, 1, 2, 3, 7, 8, 33, 256} {
-		a := make([][]complex128, 4)
-		for p := range a {
-			a[p] = make([]complex128, n)
-			for i := range a[p] {
-				a[p][i] = complex(float64((i*7+p*3)%11)-5, float64((i*5+p)%9)-4)
+	for _, k := range []int{1, 2, 3, 7, 32} {
+		for _, nb := range []int{1, 2, 5, 17} {
+			m := tileRows*nb + 5 // L is m×k column-major; the tile starts at row 2
+			L := make([]complex128, m*k)
+			for i := range L {
+				L[i] = complex(float64((i*7)%11)-5.5, float64((i*5)%9)-3.25)
+			}
+			W := make([]complex128, 1+tileCols*k)
+			for i := range W {
+				W[i] = complex(float64(i%5)-1.5, 0.75*float64(i%3)-1)
+			}
+			fill := func() ([3][]complex128, [3]int) {
+				var c [3][]complex128
+				for j := range c {
+					c[j] = make([]complex128, tileRows*nb+3)
+					for i := range c[j] {
+						c[j][i] = complex(float64(i+j), -float64(i%4))
+					}
+				}
+				return c, [3]int{1, 2, 3}
+			}
+			cv, co := fill()
+			cg, _ := fill()
+			want, _ := fill()
+			tile4x3(L, 2, m, W, 1, k, cv, co, nb)
+			tile4x3Go(L, 2, m, W, 1, k, cg, co, nb)
+			for j := range want {
+				for i := 0; i < tileRows*nb; i++ {
+					var s complex128
+					for p := 0; p < k; p++ {
+						s += L[2+i+p*m] * W[1+j*k+p]
+					}
+					want[j][co[j]+i] -= s
+				}
+				for i := range want[j] {
+					if cv[j][i] != cg[j][i] {
+						t.Fatalf("k=%d nb=%d col %d row %d: kernel %v, portable %v (must be bitwise equal)", k, nb, j, i, cv[j][i], cg[j][i])
+					}
+					if cmplx.Abs(cv[j][i]-want[j][i]) > 1e-13*(1+cmplx.Abs(want[j][i])) {
+						t.Fatalf("k=%d nb=%d col %d row %d: kernel %v, plain sum %v", k, nb, j, i, cv[j][i], want[j][i])
+					}
+				}
 			}
 		}
-		w := []complex128{1.5 - 2i, -0.25 + 1i, 3 + 0.5i, -1 - 1i}
-		d1 := make([]complex128, n)
-		for i := range d1 {
-			d1[i] = complex(float64(i), -float64(i%3))
+	}
+}
+
+// TestRankUpdateColsDense: the tiled rank update of a front (panel columns in L, the rest packed in cb) equals a
+// plain triple loop on the dense lower triangle, for fronts whose sizes leave every kind of edge (triangle rows,
+// short tails, leftover columns, row-tile boundaries) and for arbitrary target-column ranges.
+func TestRankUpdateColsDense(t *testing.T) {
+	cases := []struct{ m, k, jb, je, c0, c1 int }{
+		{1, 1, 0, 1, 1, 1}, {5, 2, 0, 1, 1, 5}, {9, 4, 1, 3, 3, 9}, {40, 7, 0, 5, 5, 40}, {40, 7, 0, 5, 8, 23},
+		{300, 40, 0, 32, 32, 300}, {300, 40, 32, 40, 40, 300}, {611, 3, 0, 3, 3, 611}, {611, 100, 64, 96, 97, 450},
+	}
+	for _, tc := range cases {
+		m, k, jb, je := tc.m, tc.k, tc.jb, tc.je
+		m2 := m - k
+		L := make([]complex128, m*k)
+		for i := range L {
+			L[i] = complex(float64((i*7)%13)-6, float64((i*3)%7)*0.5)
 		}
-		d2 := append([]complex128(nil), d1...)
-		want := append([]complex128(nil), d1...)
-		for i := range want {
-			for p := 0; p < 4; p++ {
-				want[i] -= w[p] * a[p][i]
+		cb := make([]complex128, m2*(m2+1)/2)
+		for i := range cb {
+			cb[i] = complex(float64(i%9), 1)
+		}
+		bw := je - jb
+		W := make([]complex128, bw*(m-je))
+		for i := range W {
+			W[i] = complex(float64(i%5)*0.25, -float64(i%3))
+		}
+		// Dense copy of the front's lower triangle.
+		get := func(L, cb []complex128, i, c int) *complex128 {
+			if c < k {
+				return &L[c*m+i]
+			}
+			t := c - k
+			return &cb[t*m2-t*(t-1)/2+i-c]
+		}
+		L0 := append([]complex128(nil), L...)
+		cb0 := append([]complex128(nil), cb...)
+		want := make([]complex128, m*m)
+		for c := 0; c < m; c++ {
+			for i := c; i < m; i++ {
+				if c >= je || c < k {
+					want[c*m+i] = *get(L0, cb0, i, c)
+				}
 			}
 		}
-		gemv4(d1, a[0], a[1], a[2], a[3], w)
-		gemv4Go(d2, a[0], a[1], a[2], a[3], w)
-		for i := range want {
-			if cmplx.Abs(d1[i]-want[i]) > 1e-13*(1+cmplx.Abs(want[i])) || cmplx.Abs(d2[i]-want[i]) > 1e-13*(1+cmplx.Abs(want[i])) {
-				t.Fatalf("n=%d i=%d: kernel %v, portable %v, want %v", n, i, d1[i], d2[i], want[i])
+		for c := tc.c0; c < tc.c1; c++ {
+			for i := c; i < m; i++ {
+				var s complex128
+				for p := jb; p < je; p++ {
+					s += L0[p*m+i] * W[(c-je)*bw+p-jb]
+				}
+				want[c*m+i] -= s
+			}
+		}
+		rankUpdateCols(L, m, k, jb, je, tc.c0, tc.c1, W, cb)
+		for c := je; c < m; c++ {
+			for i := c; i < m; i++ {
+				got, w := *get(L, cb, i, c), want[c*m+i]
+				if cmplx.Abs(got-w) > 1e-12*(1+cmplx.Abs(w)) {
+					t.Fatalf("%+v: entry (%d,%d) = %v, want %v", tc, i, c, got, w)
+				}
+			}
+		}
+		for i := 0; i < je*m; i++ {
+			if L[i] != L0[i] {
+				t.Fatalf("%+v: panel entry %d of a source column changed", tc, i)
 			}
 		}
 	}

@@ -312,55 +312,6 @@ func rankUpdate(L []complex128, m, k, jb, je int, W []complex128, cb []complex12
 	wg.Wait()
 }
 
-// rankUpdateCols is rankUpdate restricted to target columns c0 ≤ c < c1.
-func rankUpdateCols(L []complex128, m, k, jb, je, c0, c1 int, W []complex128, cb []complex128) {
-	bw := je - jb
-	m2 := m - k
-	for ib := je; ib < m; ib += rowTile {
-		ie := min(ib+rowTile, m)
-		for c := c0; c < min(ie, c1); c++ {
-			i0 := max(ib, c)
-			var d []complex128
-			if c < k {
-				d = L[c*m+i0 : c*m+ie]
-			} else {
-				t := c - k
-				o := t*m2 - t*(t-1)/2 - c
-				d = cb[o+i0 : o+ie]
-			}
-			w := W[(c-je)*bw : (c-je)*bw+bw]
-			gemvNeg(d, L, m, jb*m+i0, w)
-		}
-	}
-}
-
-// gemvNeg sets d −= Σ_p w[p]·L[off+p·m : off+p·m+len(d)].
-func gemvNeg(d []complex128, L []complex128, m, off int, w []complex128) {
-	n := len(d)
-	p := 0
-	for ; p+4 <= len(w); p += 4 {
-		o := off + p*m
-		a0 := L[o : o+n]
-		a1 := L[o+m : o+m+n]
-		a2 := L[o+2*m : o+2*m+n]
-		a3 := L[o+3*m : o+3*m+n]
-		gemv4(d, a0, a1, a2, a3, w[p:p+4])
-	}
-	for ; p < len(w); p++ {
-		o := off + p*m
-		axpyNeg(d, L[o:o+n], w[p])
-	}
-}
-
-// gemv4Go is the portable gemv4: d −= w[0]·a0 + w[1]·a1 + w[2]·a2 + w[3]·a3.
-func gemv4Go(d, a0, a1, a2, a3 []complex128, w []complex128) {
-	a0, a1, a2, a3 = a0[:len(d)], a1[:len(d)], a2[:len(d)], a3[:len(d)]
-	w0, w1, w2, w3 := w[0], w[1], w[2], w[3]
-	for i := range d {
-		d[i] -= w0*a0[i] + w1*a1[i] + w2*a2[i] + w3*a3[i]
-	}
-}
-
 // axpyNeg sets d −= w·a over len(d) entries.
 func axpyNeg(d, a []complex128, w complex128) {
 	a = a[:len(d)]

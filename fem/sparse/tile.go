@@ -1,0 +1,115 @@
+package sparse
+
+import "math"
+
+// The rank update of a front, C −= L(:, jb:je) · Wᵀ with W(c, p) = d_p L(c, p), is computed in register tiles of
+// 4 rows × 3 target columns: every loaded L value serves three columns and every W value four rows, with the
+// tile's sums held in registers over the whole panel width. Each entry of C is always computed by the same
+// sequence of operations (tileEntry), whether it falls inside a full tile, on an edge, or in a portable build,
+// so the factor does not depend on how target columns are split over goroutines.
+
+// tileRows and tileCols are the register tile of the rank-update kernel.
+const (
+	tileRows = 4
+	tileCols = 3
+)
+
+// tileEntry returns Σ_{p<len(w)} L[o+p·m]·w[p], accumulated as the four real sums Σ Re a·Re w, Σ Im a·Re w,
+// Σ Re a·Im w, Σ Im a·Im w with fused multiply-adds in ascending p from zero and combined once at the end. This
+// is exactly the arithmetic of the vector kernel, entry by entry.
+func tileEntry(L []complex128, o, m int, w []complex128) complex128 {
+	var rr, ri, ir, ii float64
+	for p, wp := range w {
+		a := L[o+p*m]
+		ar, ai := real(a), imag(a)
+		br, bi := real(wp), imag(wp)
+		rr = math.FMA(ar, br, rr)
+		ri = math.FMA(ai, br, ri)
+		ir = math.FMA(ar, bi, ir)
+		ii = math.FMA(ai, bi, ii)
+	}
+	return complex(rr-ii, ri+ir)
+}
+
+// tile4x3Go is the portable tile kernel: for rows i < 4·nb and j < 3,
+// c_j[co_j+i] −= Σ_{p<k} L[o+i+p·m]·W[wo+j·k+p] (the W rows of consecutive target columns are k apart).
+func tile4x3Go(L []complex128, o, m int, W []complex128, wo, k int, c [3][]complex128, co [3]int, nb int) {
+	for j := 0; j < tileCols; j++ {
+		w := W[wo+j*k : wo+j*k+k]
+		cj, oj := c[j], co[j]
+		for i := 0; i < tileRows*nb; i++ {
+			cj[oj+i] -= tileEntry(L, o+i, m, w)
+		}
+	}
+}
+
+// tile4x3 is tile4x3Go, run by the vector kernel when the processor has one. It checks every index it will touch.
+func tile4x3(L []complex128, o, m int, W []complex128, wo, k int, c [3][]complex128, co [3]int, nb int) {
+	if nb <= 0 || k <= 0 {
+		return
+	}
+	h := tileRows * nb
+	_ = L[o+(k-1)*m+h-1]
+	_ = W[wo+tileCols*k-1]
+	for j := range c {
+		_ = c[j][co[j]+h-1]
+	}
+	if !hasAVX2FMA {
+		tile4x3Go(L, o, m, W, wo, k, c, co, nb)
+		return
+	}
+	ctile4x3AVX2(&L[o], m, &W[wo], k, &c[0][co[0]], &c[1][co[1]], &c[2][co[2]], k, nb)
+}
+
+// rankUpdateCols subtracts L(i, jb:je)·W(c−je, :) from every front entry (i, c) with c0 ≤ c < c1 and i ≥ c:
+// columns c < k live in the panel L (m×k column-major), the others in the packed lower update matrix cb.
+// W holds, for each target column, its bw = je−jb coefficients d_p L(c, p) contiguously.
+func rankUpdateCols(L []complex128, m, k, jb, je, c0, c1 int, W []complex128, cb []complex128) {
+	bw := je - jb
+	m2 := m - k
+	// col returns the slice holding target column c and the offset of its row 0 in it.
+	col := func(c int) ([]complex128, int) {
+		if c < k {
+			return L, c * m
+		}
+		t := c - k
+		return cb, t*m2 - t*(t-1)/2 - c
+	}
+	entry := func(i, c int) {
+		buf, o := col(c)
+		w := W[(c-je)*bw : (c-je)*bw+bw]
+		buf[o+i] -= tileEntry(L, jb*m+i, m, w)
+	}
+	for ib := je; ib < m; ib += rowTile {
+		ie := min(ib+rowTile, m)
+		ce := min(ie, c1)
+		c := c0
+		for ; c+tileCols <= ce; c += tileCols {
+			// Rows above c+2 form a small triangle; rows from r0 on are full tiles and a short tail.
+			r0 := max(ib, c+tileCols-1)
+			for i := max(ib, c); i < r0; i++ {
+				for j := 0; j < tileCols && c+j <= i; j++ {
+					entry(i, c+j)
+				}
+			}
+			nb := (ie - r0) / tileRows
+			var cs [3][]complex128
+			var co [3]int
+			for j := range cs {
+				cs[j], co[j] = col(c + j)
+				co[j] += r0
+			}
+			tile4x3(L, jb*m+r0, m, W, (c-je)*bw, bw, cs, co, nb)
+			for i := r0 + tileRows*nb; i < ie; i++ {
+				for j := 0; j < tileCols; j++ {
+					entry(i, c+j)
+				}
+			}
+		}
+		for ; c < ce; c++ {
+			for i := max(ib, c); i < ie; i++ {
+				entry(i, c)
+			}
+		}
+	}
+}
