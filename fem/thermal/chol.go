@@ -156,8 +156,11 @@ func (c *cholesky) factor(a *csr) bool {
 		for _, j := range c.stack[top:] {
 			lkj := x[j] / lx[c.lPtr[j]]
 			x[j] = 0
-			for p := c.lPtr[j] + 1; p < c.next[j]; p++ {
-				x[lRow[p]] -= lx[p] * lkj
+			lo, hi := c.lPtr[j]+1, c.next[j]
+			rows, vals := lRow[lo:hi], lx[lo:hi]
+			vals = vals[:len(rows)]
+			for q, i := range rows {
+				x[i] -= vals[q] * lkj
 			}
 			d -= lkj * lkj
 			q := c.next[j]
@@ -183,15 +186,19 @@ func (c *cholesky) apply(z, r []float64) {
 		p0 := c.lPtr[j]
 		yj := y[j] / lx[p0]
 		y[j] = yj
-		for p := p0 + 1; p < c.lPtr[j+1]; p++ {
-			y[lRow[p]] -= lx[p] * yj
+		rows, vals := lRow[p0+1:c.lPtr[j+1]], lx[p0+1:c.lPtr[j+1]]
+		vals = vals[:len(rows)]
+		for q, i := range rows {
+			y[i] -= vals[q] * yj
 		}
 	}
 	for j := c.n - 1; j >= 0; j-- { // Lᵀ w = y, by columns of L (rows of Lᵀ)
 		p0 := c.lPtr[j]
 		s := y[j]
-		for p := p0 + 1; p < c.lPtr[j+1]; p++ {
-			s -= lx[p] * y[lRow[p]]
+		rows, vals := lRow[p0+1:c.lPtr[j+1]], lx[p0+1:c.lPtr[j+1]]
+		vals = vals[:len(rows)]
+		for q, i := range rows {
+			s -= vals[q] * y[i]
 		}
 		y[j] = s / lx[p0]
 	}

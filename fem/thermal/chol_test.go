@@ -75,3 +75,60 @@ func TestCholeskySolves(t *testing.T) {
 		})
 	}
 }
+
+// BenchmarkCholesky times the numeric factorisation and one preconditioner application (forward and back
+// substitution) on Newton-like matrices of square meshes of (n+1)² nodes, rows shuffled.
+func BenchmarkCholesky(b *testing.B) {
+	for _, n := range []int{50, 100, 200} {
+		rng := rand.New(rand.NewPCG(1, uint64(n)))
+		m := rectMesh(0, 0.04, 0, 0.04, n, n, 1)
+		nn := len(m.Nodes)
+		shuffle := rng.Perm(nn)
+		tris := make([][3]int32, len(m.Tris))
+		coords := make([][2]float64, nn)
+		for v, p := range m.Nodes {
+			coords[shuffle[v]] = [2]float64{p.X, p.Y}
+		}
+		for i, tri := range m.Tris {
+			for k, v := range tri {
+				tris[i][k] = int32(shuffle[v])
+			}
+		}
+		a := newCSR(nn, tris)
+		for _, tri := range tris {
+			for x := 0; x < 3; x++ {
+				for y := 0; y < 3; y++ {
+					v := -1.0
+					if x == y {
+						v = 2
+					}
+					a.val[a.pos(tri[x], tri[y])] += v
+				}
+			}
+		}
+		for i := 0; i < nn; i++ {
+			a.val[a.diag[i]] += 1e-2
+		}
+		ch, err := newCholesky(a, coords)
+		if err != nil {
+			b.Fatal(err)
+		}
+		b.Run(fmt.Sprintf("factor/nodes=%d", nn), func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				ch.factor(a)
+			}
+			b.ReportMetric(float64(len(ch.lx))/float64(nn), "L/row")
+		})
+		r, z := make([]float64, nn), make([]float64, nn)
+		for i := range r {
+			r[i] = rng.NormFloat64()
+		}
+		b.Run(fmt.Sprintf("apply/nodes=%d", nn), func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				ch.apply(z, r)
+			}
+		})
+	}
+}

@@ -7,6 +7,7 @@ import (
 
 	"eddyrz/fem"
 	"eddyrz/geometry"
+	"eddyrz/mesh"
 	"eddyrz/post/study"
 )
 
@@ -32,6 +33,11 @@ type coupler struct {
 	scale2 float64 // |drive scale|² applied to the last solve
 	solves int
 
+	// Quadrature of the part triangles, fixed by the mesh: the rule of each (fem.DefaultRules, as the assembly
+	// uses), its corner positions and mesh nodes (corners, then midpoints for quadratic elements).
+	rules  fem.Rules
+	onAxis []bool // mesh node lies on r = 0 (the assembly's test: an axis edge, or r ≤ 1e-12 of the largest r)
+
 	// At the last field solve: Joule density per triangle at the drive level (W/m³), the element power (W) and
 	// √(ρμr) of every part element, the coil currents (A rms) and the power into each part tag (W).
 	source  []float64
@@ -51,6 +57,7 @@ func newCoupler(md *study.Model, hold bool) (*coupler, error) {
 	c := &coupler{md: md, solver: s, freq: md.Problem.Frequency, hold: hold, drive: md.PowerDrive,
 		vol: make([]float64, len(m.Tris)), sigma: make([]float64, len(m.Tris)), mur: make([]float64, len(m.Tris)),
 		state: make([]elementState, len(m.Tris))}
+	c.rules, c.onAxis = fem.DefaultRules(), axisNodes(m)
 	byTag := map[int32]geometry.Region{}
 	for _, r := range md.Layout.Regions {
 		if r.Kind == geometry.PartRegion {
@@ -93,20 +100,8 @@ func (c *coupler) solve(nodeT []float64) error {
 		return fmt.Errorf("field solve %d: %w", c.solves+1, err)
 	}
 	c.solves++
-	q := make([]float64, len(m.Tris))
 	first := c.source == nil
-	if first {
-		clear(c.vol)
-	}
-	sol.EachPoint(func(p fem.QuadPoint) {
-		if first {
-			c.vol[p.Elem] += p.Weight
-		}
-		if c.state[p.Elem].mat != nil && p.Sigma > 0 {
-			a := cmplx.Abs(p.J)
-			q[p.Elem] += p.Weight * a * a / p.Sigma
-		}
-	})
+	q := c.joule(sol)
 	// q holds each triangle's power at the solved drive; find the drive scale.
 	partP := map[int32]float64{}
 	for _, t := range c.elems {
@@ -144,6 +139,80 @@ func (c *coupler) solve(nodeT []float64) error {
 	}
 	return nil
 }
+
+// axisNodes marks the mesh nodes on r = 0 as the field assembly does: the ends (and midpoints) of edges tagged
+// fem.AxisTag, and nodes within 1e-12 of the largest radius of r = 0.
+func axisNodes(m *mesh.Mesh) []bool {
+	on := make([]bool, len(m.Nodes))
+	for _, e := range m.Edges {
+		if e.Tag == fem.AxisTag {
+			on[e.A], on[e.B] = true, true
+			if e.M >= 0 {
+				on[e.M] = true
+			}
+		}
+	}
+	rmax := 0.0
+	for _, p := range m.Nodes {
+		rmax = math.Max(rmax, p.X)
+	}
+	for i, p := range m.Nodes {
+		if p.X <= 1e-12*rmax {
+			on[i] = true
+		}
+	}
+	return on
+}
+
+// joule returns the time-averaged Joule power of every part triangle at the solved drive, W (0 elsewhere), and
+// on the first call fills c.vol: ∫ ω²σ|A|² 2πr dr dz (a part carries J = −jωσA, physics.md, Conductors) with the
+// quadrature rule the assembly used and σ the element value set for the solve. Only the part triangles are
+// visited: the air and the coil, most of the mesh, take no heat.
+func (c *coupler) joule(sol *fem.Solution) []float64 {
+	m := sol.Mesh
+	q := make([]float64, len(m.Tris))
+	first := c.source == nil
+	w2 := sq(2 * math.Pi * sol.Frequency)
+	nl := sol.Order.NumNodes()
+	nd := make([]int32, nl)
+	sh := make([]float64, nl)
+	for _, t := range c.elems {
+		tri := m.Tris[t]
+		axis := false
+		var r, z [3]float64
+		for k, v := range tri {
+			nd[k] = v
+			r[k], z[k] = m.Nodes[v].X, m.Nodes[v].Y
+			axis = axis || c.onAxis[v]
+		}
+		if nl == 6 {
+			copy(nd[3:], m.Mid[t][:])
+		}
+		rule := &c.rules.Interior
+		if axis {
+			rule = &c.rules.Axis
+		}
+		area := 0.5 * ((r[1]-r[0])*(z[2]-z[0]) - (r[2]-r[0])*(z[1]-z[0]))
+		var p, vol float64
+		for g, l := range rule.L {
+			sol.Order.Shape(l, sh)
+			var a complex128
+			for i, v := range nd {
+				a += sol.A[v] * complex(sh[i], 0)
+			}
+			w := rule.W[g] * area * 2 * math.Pi * (l[0]*r[0] + l[1]*r[1] + l[2]*r[2])
+			vol += w
+			p += w * (real(a)*real(a) + imag(a)*imag(a))
+		}
+		q[t] = w2 * c.sigma[t] * p
+		if first {
+			c.vol[t] = vol
+		}
+	}
+	return q
+}
+
+func sq(x float64) float64 { return x * x }
 
 // powerChange estimates the relative change of the parts' power since the last field solve from the element
 // temperatures nodeT (K), by the surface-impedance scaling P ∝ √(ρ μr) applied element by element and weighted
