@@ -51,6 +51,14 @@ func peakHeap(fn func()) uint64 {
 	return p - base
 }
 
+// reportCPU reports the process CPU time per iteration since cpu0 (all goroutines, including the runtime's), as
+// "cpu-s/op": on a shared machine it is steadier than the wall time.
+func reportCPU(b *testing.B, cpu0 time.Duration) {
+	if cpu0 > 0 {
+		b.ReportMetric((processCPU()-cpu0).Seconds()/float64(b.N), "cpu-s/op")
+	}
+}
+
 var benchSizes = []struct {
 	name string
 	n    int
@@ -67,6 +75,8 @@ func BenchmarkSolve(b *testing.B) {
 			a, xy, rhs := newAxi(gridSide(sz.n), 2).build()
 			b.ReportAllocs()
 			b.ResetTimer()
+			cpu0 := processCPU()
+			defer func() { reportCPU(b, cpu0) }()
 			var st SymbolicStats
 			var peak uint64
 			for i := 0; i < b.N; i++ {
@@ -105,6 +115,8 @@ func BenchmarkRefactor(b *testing.B) {
 			x := make([]complex128, a.N)
 			b.ReportAllocs()
 			b.ResetTimer()
+			cpu0 := processCPU()
+			defer func() { reportCPU(b, cpu0) }()
 			for i := 0; i < b.N; i++ {
 				f, err := s.Factor(a)
 				if err != nil {
@@ -181,4 +193,35 @@ func readBenchSystem(b *testing.B, pa, pb string) (*Matrix, []complex128) {
 		b.Fatal(fmt.Errorf("rhs length %d for N=%d", len(rhs), a.N))
 	}
 	return a, rhs
+}
+
+// BenchmarkRefactorInPlace times Factor.Refactor + Solve on one Factor, its storage reused, as a frequency sweep
+// that keeps its factor does.
+func BenchmarkRefactorInPlace(b *testing.B) {
+	for _, sz := range benchSizes[:3] {
+		b.Run(sz.name, func(b *testing.B) {
+			a, xy, rhs := newAxi(gridSide(sz.n), 2).build()
+			s, err := Analyze(a, Options{Coords: xy})
+			if err != nil {
+				b.Fatal(err)
+			}
+			f, err := s.Factor(a)
+			if err != nil {
+				b.Fatal(err)
+			}
+			x := make([]complex128, a.N)
+			b.ReportAllocs()
+			b.ResetTimer()
+			cpu0 := processCPU()
+			defer func() { reportCPU(b, cpu0) }()
+			for i := 0; i < b.N; i++ {
+				if err := f.Refactor(a); err != nil {
+					b.Fatal(err)
+				}
+				if _, err := f.Solve(x, rhs); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
 }

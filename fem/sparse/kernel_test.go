@@ -153,3 +153,66 @@ func TestRankUpdateColsDense(t *testing.T) {
 		}
 	}
 }
+
+// TestFactorFrontDense: factorFront (blocked panels, tile kernel, packed update matrix) matches a plain
+// right-looking LDLᵀ elimination of the first k columns of a dense complex symmetric front, including the
+// Schur complement left in cb, for sizes around the panel and tile widths, serial and split over goroutines.
+func TestFactorFrontDense(t *testing.T) {
+	for _, sz := range [][2]int{{1, 1}, {2, 1}, {5, 5}, {7, 3}, {40, 33}, {70, 31}, {70, 64}, {101, 70}, {300, 97}} {
+		for _, procs := range []int{1, 3} {
+			m, k := sz[0], sz[1]
+			A := make([]complex128, m*m) // column-major, symmetric
+			for c := 0; c < m; c++ {
+				for i := c; i < m; i++ {
+					v := complex(float64((i*7+c*3)%11)-5, float64((i*5+c)%9)-4) / 8
+					if i == c {
+						v += complex(float64(m), 0.5*float64(m))
+					}
+					A[c*m+i], A[i*m+c] = v, v
+				}
+			}
+			// Plain elimination: after it, ref holds D and L in the first k columns and the Schur complement.
+			ref := append([]complex128(nil), A...)
+			for p := 0; p < k; p++ {
+				d := ref[p*m+p]
+				for i := p + 1; i < m; i++ {
+					ref[p*m+i] /= d
+				}
+				for c := p + 1; c < m; c++ {
+					f := d * ref[p*m+c]
+					for i := c; i < m; i++ {
+						ref[c*m+i] -= ref[p*m+i] * f
+					}
+				}
+			}
+			L := append([]complex128(nil), A[:m*k]...)
+			m2 := m - k
+			cb := make([]complex128, m2*(m2+1)/2)
+			for t := 0; t < m2; t++ {
+				for i := t; i < m2; i++ {
+					cb[t*m2-t*(t-1)/2+i-t] = A[(k+t)*m+k+i]
+				}
+			}
+			work := make([]complex128, panelWidth*m)
+			scratch := make([]complex128, panelScratch(m))
+			if bad, _ := factorFront(L, m, k, cb, work, scratch, procs); bad >= 0 {
+				t.Fatalf("m=%d k=%d: zero pivot at %d", m, k, bad)
+			}
+			check := func(got, want complex128, what string, i, c int) {
+				if cmplx.Abs(got-want) > 1e-12*(1+cmplx.Abs(want)) {
+					t.Fatalf("m=%d k=%d procs=%d: %s (%d,%d) = %v, want %v", m, k, procs, what, i, c, got, want)
+				}
+			}
+			for c := 0; c < k; c++ {
+				for i := c; i < m; i++ {
+					check(L[c*m+i], ref[c*m+i], "L/D", i, c)
+				}
+			}
+			for t2 := 0; t2 < m2; t2++ {
+				for i := t2; i < m2; i++ {
+					check(cb[t2*m2-t2*(t2-1)/2+i-t2], ref[(k+t2)*m+k+i], "Schur", k+i, k+t2)
+				}
+			}
+		}
+	}
+}

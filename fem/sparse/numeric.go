@@ -23,6 +23,7 @@ type Factor struct {
 	aval  []complex128 // copy of A.Val
 	a     Matrix       // A with the copied values (pattern shared with the Symbolic)
 	normA float64      // ‖A‖∞
+	ok    bool         // the values are a valid factorisation (false after a failed Refactor)
 }
 
 // panelWidth is the number of pivot columns factored before a blocked rank update; rowTile is the row tile of
@@ -39,35 +40,72 @@ func (s *Symbolic) Factor(a *Matrix) (*Factor, error) {
 	return s.factor(a, runtime.GOMAXPROCS(0))
 }
 
+// Refactor recomputes f in place for a, which must have exactly the pattern that was analysed, reusing f's
+// storage (no new allocation of L; the frequency sweeps call this hundreds of times). f must not be in use by
+// Solve meanwhile. On error f holds no valid factorisation and Solve panics until a later Refactor succeeds.
+func (f *Factor) Refactor(a *Matrix) error {
+	return f.refactor(a, runtime.GOMAXPROCS(0))
+}
+
 // factor is Factor with an explicit number of goroutines (≥ 1).
 func (s *Symbolic) factor(a *Matrix, procs int) (*Factor, error) {
+	if err := s.checkPattern(a); err != nil {
+		return nil, err
+	}
+	nz := len(s.rowIdx)
+	f := &Factor{s: s, aval: make([]complex128, nz)}
+	f.a = Matrix{N: s.n, ColPtr: s.colPtr, RowIdx: s.rowIdx, Val: f.aval}
+	f.lx = make([]complex128, s.lOff[len(s.lOff)-1])
+	adviseHuge(f.lx)
+	if err := f.refactor(a, procs); err != nil {
+		return nil, err
+	}
+	return f, nil
+}
+
+// checkPattern reports whether a has the analysed pattern.
+func (s *Symbolic) checkPattern(a *Matrix) error {
 	if a == nil || a.N != s.n || len(a.ColPtr) != s.n+1 || !slices.Equal(a.ColPtr, s.colPtr) ||
 		len(a.RowIdx) < len(s.rowIdx) || !slices.Equal(a.RowIdx[:len(s.rowIdx)], s.rowIdx) || len(a.Val) < len(s.rowIdx) {
-		return nil, fmt.Errorf("sparse: Factor: matrix pattern differs from the analysed one")
+		return fmt.Errorf("sparse: Factor: matrix pattern differs from the analysed one")
+	}
+	return nil
+}
+
+// refactor computes the factorisation of a into f's storage with procs goroutines.
+func (f *Factor) refactor(a *Matrix, procs int) error {
+	s := f.s
+	f.ok = false
+	if err := s.checkPattern(a); err != nil {
+		return err
 	}
 	n := s.n
-	nz := len(s.rowIdx)
 	scale := make([]float64, n)
 	for j := 0; j < n; j++ {
 		for p := a.ColPtr[j]; p < a.ColPtr[j+1]; p++ {
 			v := a.Val[p]
 			i := a.RowIdx[p]
 			if !finite(v) {
-				return nil, &NonFiniteError{Row: int(i), Column: j, Value: v}
+				return &NonFiniteError{Row: int(i), Column: j, Value: v}
 			}
 			av := cabs(v)
 			scale[i] = max(scale[i], av)
 			scale[j] = max(scale[j], av)
 		}
 	}
-	f := &Factor{s: s, aval: slices.Clone(a.Val[:nz])}
-	f.a = Matrix{N: n, ColPtr: s.colPtr, RowIdx: s.rowIdx, Val: f.aval}
+	copy(f.aval, a.Val)
 	f.normA = f.a.normInf()
-	lx := make([]complex128, s.lOff[len(s.lOff)-1])
-	adviseHuge(lx)
-	f.lx = lx
 	ctx := &factorCtx{s: s, f: f, scale: scale}
+	if err := ctx.run(procs); err != nil {
+		return err
+	}
+	f.ok = true
+	return nil
+}
 
+// run factors every supernode of ctx.s into ctx.f.lx.
+func (ctx *factorCtx) run(procs int) error {
+	s := ctx.s
 	// Independent subtrees first, pulled by up to procs goroutines; each keeps its root's update matrix.
 	roots := make([][]complex128, len(s.tasks))
 	failed := make([]error, len(s.tasks))
@@ -79,6 +117,7 @@ func (s *Symbolic) factor(a *Matrix, procs int) (*Factor, error) {
 		go func() {
 			defer wg.Done()
 			fw := ctx.newWorker(s.taskPeak, 1)
+			defer s.spare.put(fw)
 			for {
 				t := int(next.Add(1)) - 1
 				if t >= len(s.tasks) {
@@ -106,10 +145,11 @@ func (s *Symbolic) factor(a *Matrix, procs int) (*Factor, error) {
 		}
 	}
 	if bad >= 0 {
-		return nil, failed[bad]
+		return failed[bad]
 	}
 	// The top part, in postorder, with the task roots' update matrices slotted in where their subtrees end.
 	fw := ctx.newWorker(s.topPeak, procs)
+	defer s.spare.put(fw)
 	ns := len(s.first) - 1
 	for sn := 0; sn < ns; sn++ {
 		if t := s.taskOf[sn]; t >= 0 {
@@ -119,10 +159,10 @@ func (s *Symbolic) factor(a *Matrix, procs int) (*Factor, error) {
 			continue
 		}
 		if err := fw.front(sn); err != nil {
-			return nil, err
+			return err
 		}
 	}
-	return f, nil
+	return nil
 }
 
 // factorCtx is what the workers of one factorisation share.
@@ -142,18 +182,63 @@ type block struct {
 // frontWorker factors supernodes one after another in postorder with its own update-matrix stack.
 type frontWorker struct {
 	*factorCtx
-	stack  []complex128
-	top    int
-	blocks []block
-	pos    []int32
-	work   []complex128
-	procs  int // goroutines for large dense updates
+	stack   []complex128
+	top     int
+	blocks  []block
+	pos     []int32
+	work    []complex128
+	scratch []complex128 // panelScratch(MaxFront) entries for panelBelow
+	procs   int          // goroutines for large dense updates
 }
 
+// newWorker returns a worker with a stack of at least stackSize entries, reusing a spare one of the Symbolic's.
 func (c *factorCtx) newWorker(stackSize int64, procs int) *frontWorker {
+	if w := c.s.spare.get(stackSize); w != nil {
+		w.factorCtx, w.procs = c, procs
+		w.reset()
+		return w
+	}
 	stack := make([]complex128, stackSize)
 	adviseHuge(stack)
-	return &frontWorker{factorCtx: c, stack: stack, pos: make([]int32, c.s.n), work: make([]complex128, c.s.maxWork), procs: procs}
+	return &frontWorker{factorCtx: c, stack: stack, pos: make([]int32, c.s.n), work: make([]complex128, c.s.maxWork),
+		scratch: make([]complex128, panelScratch(c.s.stats.MaxFront)), procs: procs}
+}
+
+// workerPool keeps the workers (update-matrix stacks and scratch) of finished factorisations for the next
+// Factor or Refactor on the same Symbolic, so that repeated factorisations neither allocate nor first-touch them
+// again. It holds at most as many workers as one factorisation uses at once.
+type workerPool struct {
+	mu   sync.Mutex
+	free []*frontWorker
+}
+
+// get removes and returns the spare worker with the smallest stack of at least stackSize entries, or nil.
+func (p *workerPool) get(stackSize int64) *frontWorker {
+	p.mu.Lock()
+	defer p.mu.Unlock()
+	best := -1
+	for i, w := range p.free {
+		if int64(len(w.stack)) >= stackSize && (best < 0 || len(w.stack) < len(p.free[best].stack)) {
+			best = i
+		}
+	}
+	if best < 0 {
+		return nil
+	}
+	w := p.free[best]
+	p.free = slices.Delete(p.free, best, best+1)
+	return w
+}
+
+// put returns w to the pool, dropping its references to the finished factorisation.
+func (p *workerPool) put(w *frontWorker) {
+	w.factorCtx = nil
+	w.reset()
+	p.mu.Lock()
+	defer p.mu.Unlock()
+	if len(p.free) < runtime.GOMAXPROCS(0)+1 {
+		p.free = append(p.free, w)
+	}
 }
 
 func (w *frontWorker) reset() { w.top, w.blocks = 0, w.blocks[:0] }
@@ -167,6 +252,7 @@ func (w *frontWorker) front(sn int) error {
 	m := len(rows)
 	m2 := m - k
 	L := w.f.lx[s.lOff[sn]:s.lOff[sn+1]]
+	clear(L)
 	aval := w.f.aval
 	aOff := s.aOff[s.aPtr[sn]:s.aPtr[sn+1]]
 	for t, q := range s.aq[s.aPtr[sn]:s.aPtr[sn+1]] {
@@ -191,7 +277,7 @@ func (w *frontWorker) front(sn int) error {
 		ck := int(s.first[ch.sn+1] - s.first[ch.sn])
 		extendAdd(ch.cb, crow[ck:], pos, L, m, k, cb)
 	}
-	if bad, piv := factorFront(L, m, k, cb, w.work, w.procs); bad >= 0 {
+	if bad, piv := factorFront(L, m, k, cb, w.work, w.scratch, w.procs); bad >= 0 {
 		col := int(s.first[sn]) + bad
 		return &SingularError{Column: int(s.perm[col]), Pivot: piv}
 	}
@@ -243,14 +329,15 @@ func extendAdd(child []complex128, crow []int32, pos []int32, L []complex128, m,
 // column meaningful) and subtracts their contribution from the packed lower update matrix cb of order m−k. On
 // return L holds D on its diagonal and the unit-lower L below. It returns the local column of a zero or
 // non-finite pivot, or −1.
-func factorFront(L []complex128, m, k int, cb, work []complex128, procs int) (int, complex128) {
+func factorFront(L []complex128, m, k int, cb, work, scratch []complex128, procs int) (int, complex128) {
 	for jb := 0; jb < k; jb += panelWidth {
 		je := min(jb+panelWidth, k)
+		// The panel's diagonal block, column by column.
 		for j := jb; j < je; j++ {
-			col := L[j*m+j : j*m+m]
+			col := L[j*m+j : j*m+je]
 			for p := jb; p < j; p++ {
 				w := L[p*m+p] * L[p*m+j]
-				axpyNeg(col, L[p*m+j:p*m+m], w)
+				axpyNeg(col, L[p*m+j:p*m+je], w)
 			}
 			d := col[0]
 			if d == 0 || !finite(d) {
@@ -265,6 +352,7 @@ func factorFront(L []complex128, m, k int, cb, work []complex128, procs int) (in
 		if je == m {
 			break
 		}
+		panelBelow(L, m, jb, je, scratch)
 		// W[t*bw + p−jb] = d_p L(je+t, p)
 		bw := je - jb
 		nt := m - je
@@ -342,6 +430,9 @@ type SolveInfo struct {
 // for a NaN or Inf in b.
 func (f *Factor) Solve(x, b []complex128) (SolveInfo, error) {
 	n := f.s.n
+	if !f.ok {
+		panic("sparse: Solve on a Factor whose Refactor failed")
+	}
 	if len(x) != n || len(b) != n {
 		panic(fmt.Sprintf("sparse: Solve lengths %d, %d for N=%d", len(x), len(b), n))
 	}

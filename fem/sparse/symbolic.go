@@ -31,7 +31,8 @@ type SymbolicStats struct {
 }
 
 // Symbolic is the pattern-only analysis of a matrix: fill-reducing permutation, elimination tree and supernodes.
-// It is immutable after Analyze and may be shared by concurrent Factor calls.
+// It is immutable after Analyze (apart from scratch buffers it keeps for the next factorisation, about
+// StackPeak·16 bytes) and may be shared by concurrent Factor calls.
 type Symbolic struct {
 	n       int
 	colPtr  []int   // A's pattern, to check that Factor gets the analysed pattern
@@ -54,6 +55,7 @@ type Symbolic struct {
 	tasks             [][2]int32
 	taskOf            []int32
 	taskPeak, topPeak int64
+	spare             *workerPool // scratch kept between factorisations (internally locked)
 }
 
 // Stats returns the analysis statistics.
@@ -395,6 +397,7 @@ func Analyze(a *Matrix, opt Options) (*Symbolic, error) {
 		n: n, colPtr: slices.Clone(a.ColPtr), rowIdx: slices.Clone(a.RowIdx[:a.ColPtr[n]]),
 		perm: perm, iperm: iperm, first: first, rowPtr: rowPtr, rows: rows, lOff: lOff, parent: spar, aPtr: aPtr, aq: aq, aOff: aOff,
 		maxWork: maxWork, tasks: tasks, taskOf: taskOf, taskPeak: taskPeak, topPeak: topPeak,
+		spare: &workerPool{},
 	}
 	st.stats = SymbolicStats{
 		N: n, NnzA: a.ColPtr[n], NnzL: nnzL, NnzLStored: stored, Flops: flops, Supernodes: ns, MaxFront: maxFront,

@@ -113,3 +113,56 @@ func rankUpdateCols(L []complex128, m, k, jb, je, c0, c1 int, W []complex128, cb
 		}
 	}
 }
+
+// panelScratch is the scratch size panelBelow needs for fronts of order up to m.
+func panelScratch(m int) int { return tileCols*panelWidth + m }
+
+// panelBelow finishes the rows je ≤ i < m of the panel columns jb ≤ j < je of an m-row front whose diagonal block
+// (rows < je) is already factored: L(i, j) = (A(i, j) − Σ_{jb ≤ p < j} L(i, p) d_p L(j, p)) / d_j. Columns are
+// taken three at a time: the contribution of the columns left of the group goes through the tile kernel, the
+// few inside the group column by column. scratch holds at least panelScratch(m) entries.
+func panelBelow(L []complex128, m, jb, je int, scratch []complex128) {
+	h := m - je
+	nb := h / tileRows
+	W2 := scratch[:tileCols*panelWidth]
+	dummy := scratch[tileCols*panelWidth : tileCols*panelWidth+h]
+	for j0 := jb; j0 < je; j0 += tileCols {
+		g := min(tileCols, je-j0)
+		if q := j0 - jb; q > 0 {
+			// W2[jj·q + p−jb] = d_p L(j0+jj, p); a short last group runs against a dummy column with zero weights.
+			var cs [3][]complex128
+			var co [3]int
+			for jj := 0; jj < tileCols; jj++ {
+				w := W2[jj*q : jj*q+q]
+				if jj >= g {
+					clear(w)
+					cs[jj], co[jj] = dummy, 0
+					continue
+				}
+				c := j0 + jj
+				for p := jb; p < j0; p++ {
+					w[p-jb] = L[p*m+p] * L[p*m+c]
+				}
+				cs[jj], co[jj] = L, c*m+je
+			}
+			tile4x3(L, jb*m+je, m, W2, 0, q, cs, co, nb)
+			for jj := 0; jj < g; jj++ {
+				w := W2[jj*q : jj*q+q]
+				c := (j0+jj)*m + je
+				for i := tileRows * nb; i < h; i++ {
+					L[c+i] -= tileEntry(L, jb*m+je+i, m, w)
+				}
+			}
+		}
+		for c := j0; c < j0+g; c++ {
+			col := L[c*m+je : c*m+m]
+			for p := j0; p < c; p++ {
+				axpyNeg(col, L[p*m+je:p*m+m], L[p*m+p]*L[p*m+c])
+			}
+			inv := 1 / L[c*m+c]
+			for i := range col {
+				col[i] *= inv
+			}
+		}
+	}
+}
