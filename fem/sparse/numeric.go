@@ -233,6 +233,7 @@ func (p *workerPool) get(stackSize int64) *frontWorker {
 // put returns w to the pool, dropping its references to the finished factorisation.
 func (p *workerPool) put(w *frontWorker) {
 	w.factorCtx = nil
+	clear(w.blocks[:cap(w.blocks)])
 	w.reset()
 	p.mu.Lock()
 	defer p.mu.Unlock()
@@ -387,6 +388,7 @@ func rankUpdate(L []complex128, m, k, jb, je int, W []complex128, cb []complex12
 		c1 := m
 		if p < procs {
 			c1 = m - int(h*math.Sqrt(1-float64(p)/float64(procs)))
+			c1 = je + (c1-je)/tileCols*tileCols // whole column groups
 		}
 		if c1 > c0 {
 			wg.Add(1)

@@ -80,35 +80,48 @@ func rankUpdateCols(L []complex128, m, k, jb, je, c0, c1 int, W []complex128, cb
 		w := W[(c-je)*bw : (c-je)*bw+bw]
 		buf[o+i] -= tileEntry(L, jb*m+i, m, w)
 	}
+	// Target columns go in groups of three from c0 (a short last group column by column). In each group, rows
+	// c ≤ i < c+2 form a small triangle done entry by entry; rows from r0 = c+2 on are cut into blocks of four
+	// from r0 with a short tail at m. Row tiles keep a slice of the panel cache-resident while all groups pass;
+	// a block belongs to the tile holding its first row (it may reach 3 rows into the next).
 	for ib := je; ib < m; ib += rowTile {
 		ie := min(ib+rowTile, m)
-		ce := min(ie, c1)
 		c := c0
-		for ; c+tileCols <= ce; c += tileCols {
-			// Rows above c+2 form a small triangle; rows from r0 on are full tiles and a short tail.
-			r0 := max(ib, c+tileCols-1)
-			for i := max(ib, c); i < r0; i++ {
+		for ; c+tileCols <= c1 && c < ie; c += tileCols {
+			r0 := c + tileCols - 1
+			for i := max(ib, c); i < min(ie, r0); i++ {
 				for j := 0; j < tileCols && c+j <= i; j++ {
 					entry(i, c+j)
 				}
 			}
-			nb := (ie - r0) / tileRows
-			var cs [3][]complex128
-			var co [3]int
-			for j := range cs {
-				cs[j], co[j] = col(c + j)
-				co[j] += r0
+			rTail := r0 + (m-r0)/tileRows*tileRows
+			s0 := r0
+			if ib > r0 {
+				s0 = r0 + (ib-r0+tileRows-1)/tileRows*tileRows
 			}
-			tile4x3(L, jb*m+r0, m, W, (c-je)*bw, bw, cs, co, nb)
-			for i := r0 + tileRows*nb; i < ie; i++ {
-				for j := 0; j < tileCols; j++ {
-					entry(i, c+j)
+			if sEnd := min(ie, rTail); sEnd > s0 {
+				nb := (sEnd - s0 + tileRows - 1) / tileRows
+				var cs [3][]complex128
+				var co [3]int
+				for j := range cs {
+					cs[j], co[j] = col(c + j)
+					co[j] += s0
+				}
+				tile4x3(L, jb*m+s0, m, W, (c-je)*bw, bw, cs, co, nb)
+			}
+			if rTail >= ib && rTail < ie {
+				for i := rTail; i < m; i++ {
+					for j := 0; j < tileCols; j++ {
+						entry(i, c+j)
+					}
 				}
 			}
 		}
-		for ; c < ce; c++ {
-			for i := max(ib, c); i < ie; i++ {
-				entry(i, c)
+		if c+tileCols > c1 {
+			for ; c < min(ie, c1); c++ {
+				for i := max(ib, c); i < ie; i++ {
+					entry(i, c)
+				}
 			}
 		}
 	}
