@@ -18,6 +18,7 @@ type Solver struct {
 	asm     *Assembler
 	sym     *sparse.Symbolic
 	asmTime time.Duration
+	near    *nearState // SolveNear's anchor factorisation and recent solutions (shift.go)
 }
 
 // NewSolver validates p and assembles its frequency-independent parts.
@@ -47,6 +48,7 @@ type Stats struct {
 	Factor             time.Duration // ordering analysis (first solve only) plus numeric factorisation
 	Solve              time.Duration // triangular solves with refinement
 	Residual           float64
+	Iterations         int // preconditioned GMRES iterations of SolveNear, 0 for a direct solve
 }
 
 // SolveAt solves at frequency f (Hz) after applying material overrides (which persist for later calls).
@@ -59,6 +61,7 @@ func (s *Solver) SolveAt(f float64, ov ...Override) (*Solution, error) {
 	s.asmTime = 0
 	t0 := time.Now()
 	if len(ov) > 0 {
+		s.near = nil // new materials: SolveNear's anchor and solutions no longer apply
 		if err := a.SetMaterials(ov...); err != nil {
 			return nil, err
 		}
