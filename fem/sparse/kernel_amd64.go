@@ -29,3 +29,8 @@ var hasAVX2FMA = func() bool {
 //
 //go:noescape
 func ctile4x3AVX2(a *complex128, lda int, w *complex128, ldw int, c0, c1, c2 *complex128, k, nb int)
+
+// ctile1x3AVX2 is the single-row vector tile1x3Go (see kernel_amd64.s); callers check hasAVX2FMA and every index.
+//
+//go:noescape
+func ctile1x3AVX2(a *complex128, lda int, w *complex128, ldw int, c0, c1, c2 *complex128, k, nr int)

@@ -126,3 +126,79 @@ tloop:
 
 tdone:
 	RET
+
+// func ctile1x3AVX2(a *complex128, lda int, w *complex128, ldw int, c0, c1, c2 *complex128, k, nr int)
+// ctile4x3AVX2 for nr single rows (any nr ≥ 0): one complex per XMM register, the same operations per entry.
+// Registers: X0–X5 accumulators (column j: X(2j) for a·Re(w), X(2j+1) for a·Im(w)), X12 the a value, X14–X15
+// the duplicated Re(w), Im(w).
+TEXT ·ctile1x3AVX2(SB), NOSPLIT, $0-72
+	MOVQ a+0(FP), SI
+	MOVQ lda+8(FP), R8
+	SHLQ $4, R8
+	MOVQ w+16(FP), DX
+	MOVQ ldw+24(FP), R9
+	SHLQ $4, R9
+	LEAQ (R9)(R9*1), R10
+	MOVQ c0+32(FP), R11
+	MOVQ c1+40(FP), R12
+	MOVQ c2+48(FP), R13
+	MOVQ k+56(FP), R14
+	MOVQ nr+64(FP), DI
+	TESTQ DI, DI
+	JZ   sdone
+
+srow:
+	VXORPD X0, X0, X0
+	VXORPD X1, X1, X1
+	VXORPD X2, X2, X2
+	VXORPD X3, X3, X3
+	VXORPD X4, X4, X4
+	VXORPD X5, X5, X5
+	MOVQ SI, AX
+	MOVQ DX, BX
+	MOVQ R14, CX
+
+sloop:
+	VMOVUPD  (AX), X12
+	VMOVDDUP (BX), X14
+	VMOVDDUP 8(BX), X15
+	VFMADD231PD X14, X12, X0
+	VFMADD231PD X15, X12, X1
+	VMOVDDUP (BX)(R9*1), X14
+	VMOVDDUP 8(BX)(R9*1), X15
+	VFMADD231PD X14, X12, X2
+	VFMADD231PD X15, X12, X3
+	VMOVDDUP (BX)(R10*1), X14
+	VMOVDDUP 8(BX)(R10*1), X15
+	VFMADD231PD X14, X12, X4
+	VFMADD231PD X15, X12, X5
+	ADDQ R8, AX
+	ADDQ $16, BX
+	DECQ CX
+	JNZ  sloop
+
+	VPERMILPD $1, X1, X1
+	VADDSUBPD X1, X0, X0
+	VMOVUPD   (R11), X12
+	VSUBPD    X0, X12, X12
+	VMOVUPD   X12, (R11)
+	VPERMILPD $1, X3, X3
+	VADDSUBPD X3, X2, X2
+	VMOVUPD   (R12), X12
+	VSUBPD    X2, X12, X12
+	VMOVUPD   X12, (R12)
+	VPERMILPD $1, X5, X5
+	VADDSUBPD X5, X4, X4
+	VMOVUPD   (R13), X12
+	VSUBPD    X4, X12, X12
+	VMOVUPD   X12, (R13)
+
+	ADDQ $16, SI
+	ADDQ $16, R11
+	ADDQ $16, R12
+	ADDQ $16, R13
+	DECQ DI
+	JNZ  srow
+
+sdone:
+	RET

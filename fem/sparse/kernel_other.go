@@ -7,3 +7,7 @@ const hasAVX2FMA = false
 func ctile4x3AVX2(a *complex128, lda int, w *complex128, ldw int, c0, c1, c2 *complex128, k, nb int) {
 	panic("sparse: no vector kernel on this architecture")
 }
+
+func ctile1x3AVX2(a *complex128, lda int, w *complex128, ldw int, c0, c1, c2 *complex128, k, nr int) {
+	panic("sparse: no vector kernel on this architecture")
+}

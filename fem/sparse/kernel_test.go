@@ -86,6 +86,56 @@ func TestTile4x3(t *testing.T) {
 	}
 }
 
+// TestTile1x3: the single-row tile kernel agrees bitwise with its portable form and with tileEntry entry by
+// entry, and to rounding with a plain complex sum, leaving its neighbours alone.
+func TestTile1x3(t *testing.T) {
+	for _, k := range []int{1, 4, 31} {
+		for _, nr := range []int{0, 1, 2, 3, 6} {
+			m := nr + 4
+			L := make([]complex128, m*k)
+			for i := range L {
+				L[i] = complex(float64((i*5)%13)-6.5, float64((i*3)%7)-2.75)
+			}
+			W := make([]complex128, 2+tileCols*k)
+			for i := range W {
+				W[i] = complex(0.5*float64(i%7)-1.25, float64(i%4)-1.5)
+			}
+			fill := func() [3][]complex128 {
+				var c [3][]complex128
+				for j := range c {
+					c[j] = make([]complex128, nr+2)
+					for i := range c[j] {
+						c[j][i] = complex(float64(2*i-j), float64(i%3))
+					}
+				}
+				return c
+			}
+			co := [3]int{1, 0, 2}
+			cv, cg, want := fill(), fill(), fill()
+			tile1x3(L, 3, m, W, 2, k, cv, co, nr)
+			tile1x3Go(L, 3, m, W, 2, k, cg, co, nr)
+			for j := range want {
+				w := W[2+j*k : 2+j*k+k]
+				for i := 0; i < nr; i++ {
+					want[j][co[j]+i] -= tileEntry(L, 3+i, m, w)
+					var s complex128
+					for p := 0; p < k; p++ {
+						s += L[3+i+p*m] * w[p]
+					}
+					if d := want[j][co[j]+i] - (fill()[j][co[j]+i] - s); cmplx.Abs(d) > 1e-13*(1+cmplx.Abs(s)) {
+						t.Fatalf("k=%d nr=%d col %d row %d: tileEntry off the plain sum by %v", k, nr, j, i, d)
+					}
+				}
+				for i := range want[j] {
+					if cv[j][i] != want[j][i] || cg[j][i] != want[j][i] {
+						t.Fatalf("k=%d nr=%d col %d row %d: kernel %v, portable %v, tileEntry %v (must be bitwise equal)", k, nr, j, i, cv[j][i], cg[j][i], want[j][i])
+					}
+				}
+			}
+		}
+	}
+}
+
 // TestRankUpdateColsDense: the tiled rank update of a front (panel columns in L, the rest packed in cb) equals a
 // plain triple loop on the dense lower triangle, for fronts whose sizes leave every kind of edge (triangle rows,
 // short tails, leftover columns, row-tile boundaries) and for arbitrary target-column ranges.

@@ -43,6 +43,34 @@ func tile4x3Go(L []complex128, o, m int, W []complex128, wo, k int, c [3][]compl
 	}
 }
 
+// tile1x3Go is tile4x3Go for nr single rows.
+func tile1x3Go(L []complex128, o, m int, W []complex128, wo, k int, c [3][]complex128, co [3]int, nr int) {
+	for j := 0; j < tileCols; j++ {
+		w := W[wo+j*k : wo+j*k+k]
+		cj, oj := c[j], co[j]
+		for i := 0; i < nr; i++ {
+			cj[oj+i] -= tileEntry(L, o+i, m, w)
+		}
+	}
+}
+
+// tile1x3 is tile1x3Go, run by the vector kernel when the processor has one. It checks every index it will touch.
+func tile1x3(L []complex128, o, m int, W []complex128, wo, k int, c [3][]complex128, co [3]int, nr int) {
+	if nr <= 0 || k <= 0 {
+		return
+	}
+	_ = L[o+(k-1)*m+nr-1]
+	_ = W[wo+tileCols*k-1]
+	for j := range c {
+		_ = c[j][co[j]+nr-1]
+	}
+	if !hasAVX2FMA {
+		tile1x3Go(L, o, m, W, wo, k, c, co, nr)
+		return
+	}
+	ctile1x3AVX2(&L[o], m, &W[wo], k, &c[0][co[0]], &c[1][co[1]], &c[2][co[2]], k, nr)
+}
+
 // tile4x3 is tile4x3Go, run by the vector kernel when the processor has one. It checks every index it will touch.
 func tile4x3(L []complex128, o, m int, W []complex128, wo, k int, c [3][]complex128, co [3]int, nb int) {
 	if nb <= 0 || k <= 0 {
@@ -84,14 +112,24 @@ func rankUpdateCols(L []complex128, m, k, jb, je, c0, c1 int, W []complex128, cb
 	// c ≤ i < c+2 form a small triangle done entry by entry; rows from r0 = c+2 on are cut into blocks of four
 	// from r0 with a short tail at m. Row tiles keep a slice of the panel cache-resident while all groups pass;
 	// a block belongs to the tile holding its first row (it may reach 3 rows into the next).
+	dummy := make([]complex128, 3) // sink for the triangle's unneeded tile results
 	for ib := je; ib < m; ib += rowTile {
 		ie := min(ib+rowTile, m)
 		c := c0
 		for ; c+tileCols <= c1 && c < ie; c += tileCols {
 			r0 := c + tileCols - 1
-			for i := max(ib, c); i < min(ie, r0); i++ {
-				for j := 0; j < tileCols && c+j <= i; j++ {
-					entry(i, c+j)
+			if ib <= c && c+1 < ie {
+				// Row c of column c and row c+1 of columns c, c+1; the other results land in dummy.
+				b0, o0 := col(c)
+				b1, o1 := col(c + 1)
+				wo := (c - je) * bw
+				tile1x3(L, jb*m+c, m, W, wo, bw, [3][]complex128{b0, dummy, dummy}, [3]int{o0 + c, 0, 1}, 1)
+				tile1x3(L, jb*m+c+1, m, W, wo, bw, [3][]complex128{b0, b1, dummy}, [3]int{o0 + c + 1, o1 + c + 1, 2}, 1)
+			} else {
+				for i := max(ib, c); i < min(ie, r0); i++ {
+					for j := 0; j < tileCols && c+j <= i; j++ {
+						entry(i, c+j)
+					}
 				}
 			}
 			rTail := r0 + (m-r0)/tileRows*tileRows
@@ -110,11 +148,13 @@ func rankUpdateCols(L []complex128, m, k, jb, je, c0, c1 int, W []complex128, cb
 				tile4x3(L, jb*m+s0, m, W, (c-je)*bw, bw, cs, co, nb)
 			}
 			if rTail >= ib && rTail < ie {
-				for i := rTail; i < m; i++ {
-					for j := 0; j < tileCols; j++ {
-						entry(i, c+j)
-					}
+				var cs [3][]complex128
+				var co [3]int
+				for j := range cs {
+					cs[j], co[j] = col(c + j)
+					co[j] += rTail
 				}
+				tile1x3(L, jb*m+rTail, m, W, (c-je)*bw, bw, cs, co, m-rTail)
 			}
 		}
 		if c+tileCols > c1 {
@@ -159,13 +199,10 @@ func panelBelow(L []complex128, m, jb, je int, scratch []complex128) {
 				cs[jj], co[jj] = L, c*m+je
 			}
 			tile4x3(L, jb*m+je, m, W2, 0, q, cs, co, nb)
-			for jj := 0; jj < g; jj++ {
-				w := W2[jj*q : jj*q+q]
-				c := (j0+jj)*m + je
-				for i := tileRows * nb; i < h; i++ {
-					L[c+i] -= tileEntry(L, jb*m+je+i, m, w)
-				}
+			for jj := range co {
+				co[jj] += tileRows * nb
 			}
+			tile1x3(L, jb*m+je+tileRows*nb, m, W2, 0, q, cs, co, h-tileRows*nb)
 		}
 		for c := j0; c < j0+g; c++ {
 			col := L[c*m+je : c*m+m]
