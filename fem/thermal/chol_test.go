@@ -181,3 +181,63 @@ func TestPreconditionersAgree(t *testing.T) {
 		}
 	}
 }
+
+// conductivitySlopeTerm must be the derivative of the conduction term F(T) = Σ_e k(T̄_e)·G_e·T minus its lagged
+// part: N·y ≈ (F(T+εy) − F(T−εy))/(2ε) − K(T)·y, checked on a mesh with a strongly temperature-dependent k and
+// a non-uniform temperature field.
+func TestConductivitySlopeTerm(t *testing.T) {
+	m := rectMesh(0, 0.04, 0, 0.04, 12, 9, 1)
+	mat := Funcs{
+		K:   func(T float64) float64 { return 50 - 0.04*(T-300) + 1e-5*(T-300)*(T-300) },
+		Rho: func(float64) float64 { return 7850 },
+		Cp:  func(float64) float64 { return 460 },
+	}
+	s, err := NewSolver(Model{Mesh: m, Materials: map[int32]Material{1: mat}}, []float64{300})
+	if err != nil {
+		t.Fatal(err)
+	}
+	n := len(s.t)
+	rng := rand.New(rand.NewPCG(3, 4))
+	T, y := make([]float64, n), make([]float64, n)
+	for i := range T {
+		T[i] = 400 + 600*rng.Float64()
+		y[i] = rng.NormFloat64()
+	}
+	conduction := func(T []float64) []float64 {
+		out := make([]float64, n)
+		for ei := range s.elems {
+			el := &s.elems[ei]
+			k := mat.Conductivity((T[el.n[0]] + T[el.n[1]] + T[el.n[2]]) / 3)
+			for a := 0; a < 3; a++ {
+				for b := 0; b < 3; b++ {
+					out[el.n[a]] += k * el.g[a][b] * T[el.n[b]]
+				}
+			}
+		}
+		return out
+	}
+	const eps = 1e-3
+	tp, tm := make([]float64, n), make([]float64, n)
+	for i := range T {
+		tp[i], tm[i] = T[i]+eps*y[i], T[i]-eps*y[i]
+	}
+	fp, fm := conduction(tp), conduction(tm)
+	if err := s.assemble(T, make([]float64, n), 1); err != nil {
+		t.Fatal(err)
+	}
+	ky := make([]float64, n)
+	s.a.mulVec(ky, y)
+	got := make([]float64, n)
+	if !s.conductivitySlopeTerm(got, T, y) {
+		t.Fatal("conductivity refused")
+	}
+	scale, worst := 0.0, 0.0
+	for i := range got {
+		want := (fp[i]-fm[i])/(2*eps) - ky[i]
+		scale = math.Max(scale, math.Abs(want))
+		worst = math.Max(worst, math.Abs(got[i]-want))
+	}
+	if !(scale > 0) || worst > 1e-5*scale {
+		t.Errorf("largest difference %.3g W/K·K of %.3g", worst, scale)
+	}
+}

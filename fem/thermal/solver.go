@@ -482,16 +482,16 @@ func (s *Solver) Step(dt float64, source []float64) (StepInfo, error) {
 // converges within refactorAbove iterations with it; past that, the factor is redone from the current matrix
 // and CG goes on from where it stopped. Without a Cholesky analysis, or when a pivot fails, IC(0) of the current
 // matrix preconditions.
-func (s *Solver) linearSolve(eta float64) int {
+func (s *Solver) linearSolve(b []float64, eta float64) int {
 	maxIter := 10*len(s.y) + 100
 	if s.chol == nil {
 		s.pre.factor(s.a)
-		it, _ := pcg(s.a, &s.pre, s.y, s.r, eta, maxIter, &s.cg)
+		it, _ := pcg(s.a, &s.pre, s.y, b, eta, maxIter, &s.cg)
 		return it
 	}
 	total := 0
 	if s.chol.ok {
-		it, rel := pcg(s.a, s.chol, s.y, s.r, eta, refactorAbove, &s.cg)
+		it, rel := pcg(s.a, s.chol, s.y, b, eta, refactorAbove, &s.cg)
 		total += it
 		if rel <= eta {
 			return total
@@ -502,8 +502,37 @@ func (s *Solver) linearSolve(eta float64) int {
 		s.pre.factor(s.a)
 		pre = &s.pre
 	}
-	it, _ := pcg(s.a, pre, s.y, s.r, eta, maxIter, &s.cg)
+	it, _ := pcg(s.a, pre, s.y, b, eta, maxIter, &s.cg)
 	return total + it
+}
+
+// conductivitySlopeTerm sets out = N·y, where N is the part of the conduction Jacobian that comes from k(T):
+// with the element conductivity taken at the mean corner temperature T̄, ∂(k(T̄)·G·T)_a/∂T_c = k′(T̄)/3·(G·T)_a.
+// k′ is a central difference over ±0.05 K. It returns false (out unusable) if a conductivity is not usable.
+func (s *Solver) conductivitySlopeTerm(out, t, y []float64) bool {
+	const h = 0.05
+	clear(out)
+	for ei := range s.elems {
+		el := &s.elems[ei]
+		tm := (t[el.n[0]] + t[el.n[1]] + t[el.n[2]]) / 3
+		mat := s.mats[el.mat]
+		dk := (mat.Conductivity(tm+h) - mat.Conductivity(tm-h)) / (2 * h)
+		if math.IsNaN(dk) || math.IsInf(dk, 0) {
+			return false
+		}
+		if dk == 0 {
+			continue
+		}
+		f := dk * (y[el.n[0]] + y[el.n[1]] + y[el.n[2]]) / 3
+		for a := 0; a < 3; a++ {
+			v := 0.0
+			for b := 0; b < 3; b++ {
+				v += el.g[a][b] * t[el.n[b]]
+			}
+			out[el.n[a]] += f * v
+		}
+	}
+	return true
 }
 
 // refactorAbove is the number of CG iterations with an earlier Newton matrix's Cholesky factor after which the
@@ -605,7 +634,18 @@ func (s *Solver) solve(dt float64) (StepInfo, error) {
 		}
 		// Inexact Newton: solve only as far as the next iterate can use (the residual test below is on R itself).
 		eta := math.Min(1e-2, math.Max(1e-14, 0.1*s.tol*scale/norm))
-		info.CGIter += s.linearSolve(eta)
+		info.CGIter += s.linearSolve(s.r, eta)
+		if s.chol != nil {
+			// One correction for the conductivity's temperature dependence, which the symmetric Newton matrix
+			// leaves out: solve again with the right-hand side −R − N·y, N the k′(T) part of the Jacobian.
+			// The lagged iteration contracts by about |k′·ΔT/k| per step; with the correction, by its square.
+			if s.conductivitySlopeTerm(s.rTry, s.t, s.y) && norm2(s.rTry) < 0.5*norm2(s.r) {
+				for i := range s.rTry {
+					s.rTry[i] = s.r[i] - s.rTry[i]
+				}
+				info.CGIter += s.linearSolve(s.rTry, eta)
+			}
+		}
 
 		// Update the energies along the Newton direction ΔE = C·y, halving the step while ‖R‖₁ does not fall.
 		alpha, tMax, change := 1.0, 0.0, 0.0
