@@ -8,9 +8,12 @@
 //
 // Numerics: linear triangles with row-sum lumped heat capacity (which, with a non-obtuse mesh, keeps the discrete
 // maximum principle), backward Euler in time, and an enthalpy formulation H(T) = ∫ρc dT + ρL·f_l(T) with the nodal
-// energy as unknown: each step is solved by Newton iterations on the energy (conductivity lagged, i.e. Picard in k;
-// radiation linearised exactly), whose linear systems are symmetric positive definite and solved by conjugate
-// gradients with an incomplete-Cholesky preconditioner. A Newton move that leaves a melting interval stops on its
+// energy as unknown: each step is solved by Newton iterations on the energy (radiation linearised exactly) whose
+// matrix leaves out the conductivity's temperature dependence, so that it stays symmetric positive definite; one
+// extra solve with the k′(T) term moved to the right-hand side restores most of Newton's convergence. The linear
+// systems are solved by conjugate gradients preconditioned with a sparse Cholesky factor (nested-dissection
+// order) of a recent Newton matrix, refactored when it stops keeping the iterations few (incomplete Cholesky
+// when the pattern cannot be analysed). A Newton move that leaves a melting interval stops on its
 // edge (the tangent changes there by ρL/(ρc·w)), and a step that still does not converge is split in halves.
 // Because the stored energy is evaluated from the same H(T) as the unknown, latent heat is conserved exactly; the
 // energy balance closes to the Newton tolerance.
