@@ -109,7 +109,10 @@ type SweepPoint struct {
 	Efficiency   float64
 	BalanceError float64
 	Unknowns     int
-	Elapsed      time.Duration // this point's solve and analysis
+	// Iterations is the number of preconditioned GMRES iterations that solved this point, 0 where it was
+	// factorised directly.
+	Iterations int
+	Elapsed    time.Duration // this point's solve and analysis
 }
 
 // SweepResult is a frequency sweep of one model.
@@ -139,11 +142,28 @@ func SweepJob(job *geometry.Job, freqs []float64, workers int) (*SweepResult, er
 	return SweepModel(md, freqs, workers)
 }
 
-// SweepModel solves md at every frequency in freqs on the model's mesh, re-using the sparse pattern and the
-// symbolic factorisation. The points are spread over `workers` goroutines, each with its own study.Sweeper on
-// the shared read-only model (workers ≤ 0 means one per CPU); the result does not depend on the number of
-// workers. Points come back sorted by frequency.
+// sweepGroup is the number of neighbouring sweep points that share one anchor factorisation: the anchor is the
+// group's middle point, the others are solved iteratively (fem.Solver.SolveNear) from its factor and the group's
+// earlier solutions. Measured on the billet example (116k unknowns, 40 log points 1-10 kHz, CPU time on a shared
+// machine): groups of 1 (every point factorised, the factor's storage re-used) 61 s, groups of 5 102 s, of 10
+// 81 s. GMRES needs 5-12 iterations per point to the 1e-12 error target and each iteration costs about a tenth
+// of a factorisation (the factor's Solve refines iteratively), so iterating does not pay yet: every point is
+// factorised.
+const sweepGroup = 1
+
+// SweepModel solves md at every frequency in freqs on the model's mesh, re-using the sparse pattern, the
+// symbolic factorisation and the factor's storage, with the light analysis a sweep needs (no Maxwell-stress
+// cross-check). The frequencies are cut into groups of sweepGroup neighbours; a group factorises once, at its
+// middle, and solves its other points by preconditioned GMRES to within fem.NearTolerance (falling back to a
+// fresh factorisation where that does not converge quickly). The groups are spread over `workers` goroutines,
+// each with its own study.Sweeper on the shared read-only model (workers ≤ 0 means one per CPU); the groups do
+// not depend on the number of workers, so neither does the result. Points come back sorted by frequency.
 func SweepModel(md *study.Model, freqs []float64, workers int) (*SweepResult, error) {
+	return sweepModel(md, freqs, workers, sweepGroup)
+}
+
+// sweepModel is SweepModel with groups of `group` points (1: every point factorised directly).
+func sweepModel(md *study.Model, freqs []float64, workers, group int) (*SweepResult, error) {
 	if len(freqs) == 0 {
 		return nil, errors.New("sweep: no frequencies")
 	}
@@ -152,10 +172,11 @@ func SweepModel(md *study.Model, freqs []float64, workers int) (*SweepResult, er
 			return nil, fmt.Errorf("sweep: frequency %g Hz is not positive and finite", f)
 		}
 	}
+	groups := sweepGroups(freqs, group)
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
 	}
-	workers = min(workers, len(freqs))
+	workers = min(workers, len(groups))
 	res := &SweepResult{
 		Job: md.Job.Name, File: md.Job.File, MeshFrequency: md.Job.Frequency, Nodes: len(md.Mesh.Nodes),
 		Workers: workers, MeshTime: md.MeshTime, Points: make([]SweepPoint, len(freqs)),
@@ -163,14 +184,6 @@ func SweepModel(md *study.Model, freqs []float64, workers int) (*SweepResult, er
 	for _, p := range md.Job.Parts {
 		res.Parts = append(res.Parts, p.Name)
 	}
-	// The highest frequencies first: they have the finest skin depths and are the likeliest to fail, so a bad
-	// sweep stops early.
-	order := make([]int, len(freqs))
-	for i := range order {
-		order[i] = i
-	}
-	slices.SortFunc(order, func(a, b int) int { return cmpFloat(freqs[b], freqs[a]) })
-
 	t0 := time.Now()
 	var (
 		mu   sync.Mutex
@@ -178,48 +191,49 @@ func SweepModel(md *study.Model, freqs []float64, workers int) (*SweepResult, er
 		errs = make([]error, workers)
 		wg   sync.WaitGroup
 	)
-	take := func() (int, bool) {
+	// The highest groups first: they have the finest skin depths and are the likeliest to fail, so a bad sweep
+	// stops early.
+	take := func() ([]int, bool) {
 		mu.Lock()
 		defer mu.Unlock()
-		if next >= len(order) {
-			return 0, false
+		if next >= len(groups) || slices.ContainsFunc(errs, func(e error) bool { return e != nil }) {
+			return nil, false
 		}
-		if slices.ContainsFunc(errs, func(e error) bool { return e != nil }) {
-			return 0, false
-		}
-		i := order[next]
+		g := groups[len(groups)-1-next]
 		next++
-		return i, true
+		return g, true
+	}
+	fail := func(w int, err error) {
+		mu.Lock()
+		errs[w] = err
+		mu.Unlock()
 	}
 	for w := 0; w < workers; w++ {
-		wg.Add(1)
-		go func(w int) {
-			defer wg.Done()
+		wg.Go(func() {
 			sw, err := md.NewSweeper()
 			if err != nil {
-				mu.Lock()
-				errs[w] = err
-				mu.Unlock()
+				fail(w, err)
 				return
 			}
 			for {
-				i, ok := take()
+				g, ok := take()
 				if !ok {
 					return
 				}
-				t1 := time.Now()
-				s, err := sw.SolveAt(freqs[i])
-				if err != nil {
-					mu.Lock()
-					errs[w] = err
-					mu.Unlock()
-					return
+				sw.ResetNear()
+				for _, i := range g {
+					t1 := time.Now()
+					s, err := sw.SolveNear(freqs[i])
+					if err != nil {
+						fail(w, err)
+						return
+					}
+					pt := pointOf(s)
+					pt.Elapsed = time.Since(t1)
+					res.Points[i] = pt // each index is written by one goroutine only
 				}
-				pt := pointOf(s)
-				pt.Elapsed = time.Since(t1)
-				res.Points[i] = pt // each index is written by one goroutine only
 			}
-		}(w)
+		})
 	}
 	wg.Wait()
 	if err := errors.Join(errs...); err != nil {
@@ -233,11 +247,37 @@ func SweepModel(md *study.Model, freqs []float64, workers int) (*SweepResult, er
 	return res, nil
 }
 
+// sweepGroups cuts the indices of freqs, in increasing frequency, into runs of about `size` neighbours,
+// lowest run first; each run lists its middle point first, then the points above it upwards, then those below
+// it downwards (so each solve starts next to the previous ones).
+func sweepGroups(freqs []float64, size int) [][]int {
+	order := make([]int, len(freqs))
+	for i := range order {
+		order[i] = i
+	}
+	slices.SortStableFunc(order, func(a, b int) int { return cmpFloat(freqs[a], freqs[b]) })
+	ng := (len(order) + size - 1) / size
+	var groups [][]int
+	for k := range ng {
+		run := order[len(order)*k/ng : len(order)*(k+1)/ng]
+		mid := len(run) / 2
+		g := []int{run[mid]}
+		for i := mid + 1; i < len(run); i++ {
+			g = append(g, run[i])
+		}
+		for i := mid - 1; i >= 0; i-- {
+			g = append(g, run[i])
+		}
+		groups = append(groups, g)
+	}
+	return groups
+}
+
 // pointOf condenses a solution into a sweep point.
 func pointOf(s *study.Solution) SweepPoint {
 	r := s.Result
 	pt := SweepPoint{Frequency: r.Frequency, Efficiency: r.Efficiency, BalanceError: r.BalanceError,
-		Unknowns: r.Unknowns}
+		Unknowns: r.Unknowns, Iterations: s.Field.Stats.Iterations}
 	for _, c := range r.Coils {
 		pt.Coils = append(pt.Coils, CoilPoint{
 			Name: c.Name, Resistance: c.Resistance, Inductance: c.Inductance, Q: c.QualityFactor,
