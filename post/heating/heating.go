@@ -25,8 +25,8 @@ const DefaultMaxDuration = 3600.0
 
 // HeatTolerance is the Newton tolerance of the heat-conduction steps: the residual of each node's energy balance,
 // summed, relative to the step's energy flows (thermal.Model.Tolerance). At 1e-7 the energy balance closes far
-// below the time-discretisation error of a 0.5 s step, and a step takes about one Newton iteration fewer than at
-// the solver's default 1e-10 (the conductivity is lagged, so the iterations converge linearly, by about 50× each).
+// below the time-discretisation error of a 0.5 s step, with fewer Newton iterations than the solver's default
+// 1e-10 needs (on the billet example before the k′ correction: 398 instead of 581 over 100 steps).
 const HeatTolerance = 1e-7
 
 // DefaultMaps is how many temperature maps a run keeps when Options.MapTimes is empty.
