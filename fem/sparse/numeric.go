@@ -107,7 +107,8 @@ func (f *Factor) refactor(a *Matrix, procs int) error {
 func (ctx *factorCtx) run(procs int) error {
 	s := ctx.s
 	// Independent subtrees first, pulled by up to procs goroutines; each keeps its root's update matrix.
-	roots := make([][]complex128, len(s.tasks))
+	roots := s.spare.takeRoots(len(s.tasks))
+	defer s.spare.putRoots(roots)
 	failed := make([]error, len(s.tasks))
 	nw := max(1, min(procs, len(s.tasks)))
 	var next atomic.Int32
@@ -132,7 +133,7 @@ func (ctx *factorCtx) run(procs int) error {
 					}
 				}
 				if failed[t] == nil && len(fw.blocks) == 1 {
-					roots[t] = slices.Clone(fw.blocks[0].cb)
+					roots[t] = append(roots[t][:0], fw.blocks[0].cb...)
 				}
 			}
 		}()
@@ -188,6 +189,7 @@ type frontWorker struct {
 	pos     []int32
 	work    []complex128
 	scratch []complex128 // panelScratch(MaxFront) entries for panelBelow
+	rel     []int32      // MaxFront entries for extendAdd
 	procs   int          // goroutines for large dense updates
 }
 
@@ -201,15 +203,36 @@ func (c *factorCtx) newWorker(stackSize int64, procs int) *frontWorker {
 	stack := make([]complex128, stackSize)
 	adviseHuge(stack)
 	return &frontWorker{factorCtx: c, stack: stack, pos: make([]int32, c.s.n), work: make([]complex128, c.s.maxWork),
-		scratch: make([]complex128, panelScratch(c.s.stats.MaxFront)), procs: procs}
+		scratch: make([]complex128, panelScratch(c.s.stats.MaxFront)), rel: make([]int32, c.s.stats.MaxFront), procs: procs}
 }
 
 // workerPool keeps the workers (update-matrix stacks and scratch) of finished factorisations for the next
 // Factor or Refactor on the same Symbolic, so that repeated factorisations neither allocate nor first-touch them
 // again. It holds at most as many workers as one factorisation uses at once.
 type workerPool struct {
-	mu   sync.Mutex
-	free []*frontWorker
+	mu    sync.Mutex
+	free  []*frontWorker
+	roots [][]complex128 // the task roots' update matrices
+}
+
+// takeRoots returns the kept buffers for the n task roots' update matrices (entries may be nil), leaving none in
+// the pool until putRoots.
+func (p *workerPool) takeRoots(n int) [][]complex128 {
+	p.mu.Lock()
+	defer p.mu.Unlock()
+	r := p.roots
+	p.roots = nil
+	if len(r) != n {
+		r = make([][]complex128, n)
+	}
+	return r
+}
+
+// putRoots keeps the root buffers for the next factorisation.
+func (p *workerPool) putRoots(r [][]complex128) {
+	p.mu.Lock()
+	defer p.mu.Unlock()
+	p.roots = r
 }
 
 // get removes and returns the spare worker with the smallest stack of at least stackSize entries, or nil.
@@ -276,7 +299,7 @@ func (w *frontWorker) front(sn int) error {
 		}
 		crow := s.rows[s.rowPtr[ch.sn]:s.rowPtr[ch.sn+1]]
 		ck := int(s.first[ch.sn+1] - s.first[ch.sn])
-		extendAdd(ch.cb, crow[ck:], pos, L, m, k, cb)
+		extendAdd(ch.cb, crow[ck:], pos, L, m, k, cb, w.rel)
 	}
 	if bad, piv := factorFront(L, m, k, cb, w.work, w.scratch, w.procs); bad >= 0 {
 		col := int(s.first[sn]) + bad
@@ -303,24 +326,31 @@ func (w *frontWorker) front(sn int) error {
 
 // extendAdd adds a child's packed lower update matrix (rows crow, all present in the parent pattern) into the
 // parent front: pivot columns go to the panel L (m×k, column-major), the rest to the packed update matrix cb.
-func extendAdd(child []complex128, crow []int32, pos []int32, L []complex128, m, k int, cb []complex128) {
+// rel (at least len(crow) entries) is scratch for the rows' positions in the front.
+func extendAdd(child []complex128, crow []int32, pos []int32, L []complex128, m, k int, cb []complex128, rel []int32) {
 	mc := len(crow)
 	m2 := m - k
+	rel = rel[:mc]
+	for a, r := range crow {
+		rel[a] = pos[r]
+	}
 	o := 0
 	for a := 0; a < mc; a++ {
-		la := int(pos[crow[a]])
+		la := int(rel[a])
 		src := child[o : o+mc-a]
 		o += mc - a
+		ra := rel[a : a+len(src)]
 		if la < k {
-			dst := L[la*m:]
+			dst := L[la*m : la*m+m]
 			for b, v := range src {
-				dst[pos[crow[a+b]]] += v
+				dst[ra[b]] += v
 			}
 		} else {
 			t := la - k
 			base := t*m2 - t*(t-1)/2 - la // cb[base+i] is front entry (i, la)
+			dst := cb[base+la : base+m]
 			for b, v := range src {
-				cb[base+int(pos[crow[a+b]])] += v
+				dst[int(ra[b])-la] += v
 			}
 		}
 	}

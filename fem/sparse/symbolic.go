@@ -31,8 +31,9 @@ type SymbolicStats struct {
 }
 
 // Symbolic is the pattern-only analysis of a matrix: fill-reducing permutation, elimination tree and supernodes.
-// It is immutable after Analyze (apart from scratch buffers it keeps for the next factorisation, about
-// StackPeak·16 bytes) and may be shared by concurrent Factor calls.
+// It is immutable after Analyze (apart from the scratch it keeps for the next factorisation: the update-matrix
+// stacks, about StackPeak·16 bytes, and the subtree roots' update matrices) and may be shared by concurrent
+// Factor calls.
 type Symbolic struct {
 	n       int
 	colPtr  []int   // A's pattern, to check that Factor gets the analysed pattern
