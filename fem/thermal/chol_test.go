@@ -63,7 +63,7 @@ func TestCholeskySolves(t *testing.T) {
 			if worst > 1e-9*norm2(r) {
 				t.Errorf("max |A z − r| = %.3g", worst)
 			}
-			// The fill of a nested-dissection ordering on a k×k grid is O(n log k) (George 1973: about
+			// The fill of a nested-dissection ordering on a k×k grid is O(n log k) (George 1973, from memory: about
 			// 31/4·n·log₂k); even the best banded order fills n·k, and the shuffled numbering nearly n²/2.
 			if nnz := len(ch.lx); n > 1000 && nnz > n*int(math.Sqrt(float64(n))) {
 				t.Errorf("L holds %d entries for %d rows", nnz, n)
