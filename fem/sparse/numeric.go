@@ -272,11 +272,13 @@ func (w *frontWorker) reset() { w.top, w.blocks = 0, w.blocks[:0] }
 func (w *frontWorker) front(sn int) error {
 	s := w.s
 	k := int(s.first[sn+1] - s.first[sn])
+	L := w.f.lx[s.lOff[sn]:s.lOff[sn+1]]
 	rows := s.rows[s.rowPtr[sn]:s.rowPtr[sn+1]]
 	m := len(rows)
 	m2 := m - k
-	L := w.f.lx[s.lOff[sn]:s.lOff[sn+1]]
-	clear(L)
+	for j := 0; j < k; j++ {
+		clear(L[j*m+j : j*m+m]) // only the lower part is ever read (solves) or added into (A, children)
+	}
 	aval := w.f.aval
 	aOff := s.aOff[s.aPtr[sn]:s.aPtr[sn+1]]
 	for t, q := range s.aq[s.aPtr[sn]:s.aPtr[sn+1]] {
