@@ -148,7 +148,7 @@ type MeshControls struct {
 
 // DefaultMeshControls are the settings used where the file says nothing.
 func DefaultMeshControls() MeshControls {
-	return MeshControls{PerSkinDepth: 1.5, Growth: 1.3, OuterSize: 5, MinAngle: 28, Order: 2}
+	return MeshControls{PerSkinDepth: 1.5, Growth: 1.6, OuterSize: 5, MinAngle: 28, Order: 2}
 }
 
 // Levitation asks for a sweep of the axial force on a part over a range of heights.

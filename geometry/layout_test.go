@@ -258,7 +258,7 @@ func TestSizeField(t *testing.T) {
 		}
 	}
 	// A lone sphere: on its surface h = min(δ/n, a/4) with n the default elements per skin depth; a distance d
-	// outside h = that + 0.3·d.
+	// outside h = that + (growth − 1)·d.
 	src := `frequency = "10 kHz"
 applied_field = "1 mT"
 [[part]]
@@ -282,13 +282,14 @@ material = "copper"
 		t.Errorf("copper skin depth at 10 kHz %g", d)
 	}
 	hs := d / DefaultMeshControls().PerSkinDepth
+	g1 := DefaultMeshControls().Growth - 1
 	for _, c := range []struct {
 		p    mesh.Point
 		want float64
 	}{
 		{mesh.Point{X: 0.01, Y: 0}, hs},
-		{mesh.Point{X: 0.02, Y: 0}, hs + 0.3*0.01},
-		{mesh.Point{X: 0.009, Y: 0}, hs + 0.3*0.001},
+		{mesh.Point{X: 0.02, Y: 0}, hs + g1*0.01},
+		{mesh.Point{X: 0.009, Y: 0}, hs + g1*0.001},
 		{mesh.Point{X: 0.0, Y: 0}, 0.01 / 4}, // the interior cap, a/4
 	} {
 		if got := l.Size(c.p); math.Abs(got-c.want) > 1e-12 {
