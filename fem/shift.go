@@ -41,6 +41,9 @@ type nearState struct {
 	basis      [][]complex128
 	bk, bm, bq [][]complex128
 	b0, b1, b2 []complex128
+	// pending solutions, added to the basis only when an iterative solve needs it (a sweep of direct solves
+	// never pays for the projections)
+	pending [][]complex128
 	// work space, reused across solves
 	v          [][]complex128
 	kx, mx, qx []complex128
@@ -89,7 +92,7 @@ func (s *Solver) SolveNear(f float64) (*Solution, error) {
 		st.Solve = time.Since(t0)
 		if ok {
 			st.Iterations, st.Residual = its, res
-			s.enrich(x)
+			ns.keep(x)
 			return a.solution(f, m, b, x, st), nil
 		}
 	}
@@ -123,8 +126,16 @@ func (s *Solver) SolveNear(f float64) (*Solution, error) {
 	}
 	st.Solve = time.Since(t0)
 	ns.anchored, ns.anchorF = true, f
-	s.enrich(x)
+	ns.keep(x)
 	return a.solution(f, m, b, x, st), nil
+}
+
+// keep queues a solution for the basis, dropping the oldest queued ones beyond the basis cap.
+func (ns *nearState) keep(x []complex128) {
+	if len(ns.pending) >= nearBasis {
+		ns.pending = append(ns.pending[:0], ns.pending[1:]...)
+	}
+	ns.pending = append(ns.pending, x)
 }
 
 // enrich adds the parts of the given vectors that the reduced basis does not yet span.
@@ -212,6 +223,8 @@ func (a *Assembler) mulKMQ(kx, mx, qx, x []complex128) {
 func (s *Solver) iterate(f float64, m *sparse.Matrix, b []complex128) (x []complex128, its int, res float64, ok bool) {
 	ns := s.near
 	n := s.asm.n
+	s.enrich(ns.pending...)
+	ns.pending = ns.pending[:0]
 	x = make([]complex128, n)
 	s.galerkinStart(x, 2*math.Pi*f)
 	r := make([]complex128, n)
