@@ -251,9 +251,7 @@ func (s *Solver) iterate(f float64, m *sparse.Matrix, b []complex128) (x []compl
 		for i := range r {
 			r[i] = b[i] - r[i]
 		}
-		if _, err := ns.fac.Solve(pr, r); err != nil {
-			return 0, false
-		}
+		ns.fac.Apply(pr, r)
 		ne, nx := wnorm(pr), wnorm(x)
 		if nx == 0 {
 			return math.Inf(1), true
@@ -291,9 +289,7 @@ func (s *Solver) iterate(f float64, m *sparse.Matrix, b []complex128) (x []compl
 		for its < mm {
 			vk := V[k+1]
 			m.MulVec(r, V[k])
-			if _, err := ns.fac.Solve(vk, r); err != nil {
-				return x, its, 0, false
-			}
+			ns.fac.Apply(vk, r)
 			its++
 			for i := 0; i <= k; i++ {
 				H[i][k] = 0

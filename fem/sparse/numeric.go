@@ -531,6 +531,19 @@ func (f *Factor) residual(r, x, b []complex128, normB float64) float64 {
 // solveOnce sets x = A⁻¹ b by permutation, forward substitution, diagonal scaling and back substitution. Each
 // supernode's own pivots are contiguous in y, so only its rows below them go through the index list, gathered or
 // scattered once per supernode.
+// Apply sets x = (L D Lᵀ)⁻¹ b with the factorisation as it stands: one forward, diagonal and back substitution,
+// no refinement and no residual check. It is the cheap step for using a factorisation as a preconditioner
+// (of a nearby matrix, say); Solve is the checked solve of the factored matrix itself. x and b may alias.
+func (f *Factor) Apply(x, b []complex128) {
+	if !f.ok {
+		panic("sparse: Apply on a Factor whose Refactor failed")
+	}
+	if len(x) != f.s.n || len(b) != f.s.n {
+		panic(fmt.Sprintf("sparse: Apply lengths %d, %d for N=%d", len(x), len(b), f.s.n))
+	}
+	f.solveOnce(x, b)
+}
+
 func (f *Factor) solveOnce(x, b []complex128) {
 	s := f.s
 	y := make([]complex128, s.n)
