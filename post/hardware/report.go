@@ -3,7 +3,6 @@ package hardware
 import (
 	"fmt"
 	"io"
-	"math"
 	"strings"
 	"text/tabwriter"
 
@@ -204,7 +203,7 @@ func (r *Report) WriteText(w io.Writer) error {
 	line := func(format string, a ...any) { fmt.Fprintf(tw, format+"\n", a...) }
 	if t := r.Tank; t != nil {
 		states := []*TankStateReport{&t.TankStateReport}
-		head := "tank (" + t.Connection + fmt.Sprintf(", %s)", si(float64(t.Capacitance), "F"))
+		head := "tank (" + t.Connection + fmt.Sprintf(", %s)", post.SI(float64(t.Capacitance), "F"))
 		cols := "\t" + t.Load
 		if t.Hot != nil {
 			states = append(states, t.Hot)
@@ -221,12 +220,12 @@ func (r *Report) WriteText(w io.Writer) error {
 		for _, s := range states {
 			line("  %s load\t%s", s.Load, s.LoadBasis)
 		}
-		line("  target power\t%s into %s (%s)", si(float64(t.TargetPowerW), "W"), partName(t.TargetPart, t.PowerBasis), t.PowerBasis)
-		row("resonant frequency", func(s *TankStateReport) string { return si(float64(s.ResonantFrequencyHz), "Hz") })
-		row("ideal 1/(2π√(LC)) at that L", func(s *TankStateReport) string { return si(float64(s.IdealFrequencyHz), "Hz") })
-		row("start-up frequency (common practice)", func(s *TankStateReport) string { return si(float64(s.StartFrequencyHz), "Hz") })
+		line("  target power\t%s into %s (%s)", post.SI(float64(t.TargetPowerW), "W"), partName(t.TargetPart, t.PowerBasis), t.PowerBasis)
+		row("resonant frequency", func(s *TankStateReport) string { return post.SI(float64(s.ResonantFrequencyHz), "Hz") })
+		row("ideal 1/(2π√(LC)) at that L", func(s *TankStateReport) string { return post.SI(float64(s.IdealFrequencyHz), "Hz") })
+		row("start-up frequency (common practice)", func(s *TankStateReport) string { return post.SI(float64(s.StartFrequencyHz), "Hz") })
 		row("coil R, L", func(s *TankStateReport) string {
-			return si(float64(s.CoilResistance), "Ω") + ", " + si(float64(s.CoilInductance), "H")
+			return post.SI(float64(s.CoilResistance), "Ω") + ", " + post.SI(float64(s.CoilInductance), "H")
 		})
 		row("coil Q, tank Q", func(s *TankStateReport) string {
 			return fmt.Sprintf("%.3g, %.3g", float64(s.CoilQ), float64(s.QualityFactor))
@@ -236,28 +235,28 @@ func (r *Report) WriteText(w io.Writer) error {
 		})
 		row("coil efficiency", func(s *TankStateReport) string { return fmt.Sprintf("%.3f", float64(s.Efficiency)) })
 		row("coil current, voltage", func(s *TankStateReport) string {
-			return si(float64(s.CoilCurrent), "A") + ", " + si(float64(s.CoilVoltage), "V")
+			return post.SI(float64(s.CoilCurrent), "A") + ", " + post.SI(float64(s.CoilVoltage), "V")
 		})
-		row("coil own loss", func(s *TankStateReport) string { return si(float64(s.CoilLoss), "W") })
+		row("coil own loss", func(s *TankStateReport) string { return post.SI(float64(s.CoilLoss), "W") })
 		row("tank current, voltage", func(s *TankStateReport) string {
-			return si(float64(s.TankCurrent), "A") + ", " + si(float64(s.TankVoltage), "V")
+			return post.SI(float64(s.TankCurrent), "A") + ", " + post.SI(float64(s.TankVoltage), "V")
 		})
 		row("inverter current", func(s *TankStateReport) string {
-			return si(float64(s.InverterCurrent), "A") + " at " + si(float64(s.InverterVoltage), "V")
+			return post.SI(float64(s.InverterCurrent), "A") + " at " + post.SI(float64(s.InverterVoltage), "V")
 		})
 		row("transformer turns ratio n = N1/N2", func(s *TankStateReport) string { return fmt.Sprintf("%.3g : 1", float64(s.TurnsRatio)) })
 		for i := range states[0].Checks {
 			row(states[0].Checks[i].Name, func(s *TankStateReport) string {
 				c := s.Checks[i]
-				v := si(float64(c.Value), c.Unit)
+				v := post.SI(float64(c.Value), c.Unit)
 				if c.Status == circuit.NotRated.String() {
 					return v + " (not rated)"
 				}
-				return fmt.Sprintf("%s of %s: %s", v, si(float64(c.Rating), c.Unit), c.Status)
+				return fmt.Sprintf("%s of %s: %s", v, post.SI(float64(c.Rating), c.Unit), c.Status)
 			})
 		}
 		if t.Hot != nil {
-			line("  resonance shift cold → hot\t%s (%+.1f %%)", si(float64(t.ShiftHz), "Hz"), 100*float64(t.ShiftRelative))
+			line("  resonance shift cold → hot\t%s (%+.1f %%)", post.SI(float64(t.ShiftHz), "Hz"), 100*float64(t.ShiftRelative))
 		}
 		verdict := "PASS: every rated figure within its rating"
 		if !t.AllPass {
@@ -267,8 +266,8 @@ func (r *Report) WriteText(w io.Writer) error {
 	}
 	if c := r.Cooling; c != nil {
 		line("coil cooling water\t")
-		line("  coil loss\t%s (%s)", si(float64(c.CoilLossW), "W"), c.LossBasis)
-		line("  bore, water path\t%s (%s), %s in %d circuit(s)", si(float64(c.BoreDiameterM), "m"), c.Bore, si(float64(c.PathLengthM), "m"), c.Circuits)
+		line("  coil loss\t%s (%s)", post.SI(float64(c.CoilLossW), "W"), c.LossBasis)
+		line("  bore, water path\t%s (%s), %s in %d circuit(s)", post.SI(float64(c.BoreDiameterM), "m"), c.Bore, post.SI(float64(c.PathLengthM), "m"), c.Circuits)
 		line("  flow for a %.3g K rise\t%.3g L/min (inlet %.1f °C, outlet %.1f °C)", float64(c.RiseK), float64(c.FlowLPerMin), float64(c.InletC), float64(c.OutletTemperatureC))
 		line("  velocity, Reynolds, Prandtl\t%.3g m/s, %.0f, %.3g", float64(c.VelocityMPerS), float64(c.Reynolds), float64(c.Prandtl))
 		line("  friction factor (Colebrook), pressure drop\t%.4f, %.3g bar of %.3g bar supply", float64(c.FrictionFactor), float64(c.PressureDropPa)/1e5, float64(c.SupplyPressurePa)/1e5)
@@ -291,22 +290,4 @@ func partName(p, basis string) string {
 		return "all parts"
 	}
 	return fmt.Sprintf("%q", p)
-}
-
-// si prints x with an SI prefix and the unit, four significant digits.
-func si(x float64, unit string) string {
-	if x == 0 || math.IsNaN(x) || math.IsInf(x, 0) {
-		return fmt.Sprintf("%g %s", x, unit)
-	}
-	prefixes := []struct {
-		p string
-		k float64
-	}{{"G", 1e9}, {"M", 1e6}, {"k", 1e3}, {"", 1}, {"m", 1e-3}, {"µ", 1e-6}, {"n", 1e-9}, {"p", 1e-12}}
-	a := math.Abs(x)
-	for _, p := range prefixes {
-		if a >= p.k*0.9995 {
-			return fmt.Sprintf("%.4g %s%s", x/p.k, p.p, unit)
-		}
-	}
-	return fmt.Sprintf("%.4g %s", x, unit)
 }
