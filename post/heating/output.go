@@ -257,7 +257,7 @@ func (r *Result) MapFigure(s Snapshot) (*plot.Figure, error) {
 			lo, hi = math.Min(lo, vals[i]), math.Max(hi, vals[i])
 		}
 	}
-	w := partWindow(r.Model)
+	w := r.Model.ConductorWindow(0.1)
 	spec := plot.FieldSpec{Title: fmt.Sprintf("%s: temperature at %.4g s", r.Job.Name, s.T), Unit: "°C",
 		NodeValues: vals, Outlines: study.Outlines(m), View: w}
 	if !(hi > lo) {
@@ -266,32 +266,3 @@ func (r *Result) MapFigure(s Snapshot) (*plot.Figure, error) {
 	return plot.FieldMap(m, spec)
 }
 
-// partWindow frames the parts with a margin.
-func partWindow(md *study.Model) *plot.Window {
-	tags := map[int32]bool{}
-	for _, r := range md.Layout.Regions {
-		if r.Material != nil {
-			tags[r.Tag] = true
-		}
-	}
-	m := md.Mesh
-	w := plot.Window{RMin: 0, RMax: math.Inf(-1), ZMin: math.Inf(1), ZMax: math.Inf(-1)}
-	for t, tri := range m.Tris {
-		if !tags[m.Tags[t]] {
-			continue
-		}
-		for _, v := range tri {
-			p := m.Nodes[v]
-			w.RMax = math.Max(w.RMax, p.X)
-			w.ZMin, w.ZMax = math.Min(w.ZMin, p.Y), math.Max(w.ZMax, p.Y)
-		}
-	}
-	if math.IsInf(w.RMax, 0) {
-		return nil
-	}
-	size := math.Max(w.RMax, w.ZMax-w.ZMin)
-	w.RMax += 0.1 * size
-	w.ZMin -= 0.1 * size
-	w.ZMax += 0.1 * size
-	return &w
-}

@@ -85,7 +85,7 @@ func (s *Solution) Figures(opt FigureOptions) (joule, flux *plot.Figure, err err
 	m := s.Field.Mesh
 	view := opt.View
 	if view == nil {
-		view = s.Model.conductorWindow(0.25)
+		view = s.Model.ConductorWindow(0.25)
 	}
 	outl := Outlines(m)
 	ff := s.FluxFunction()
@@ -111,7 +111,7 @@ func (s *Solution) Figures(opt FigureOptions) (joule, flux *plot.Figure, err err
 // FigureSize returns a page size in centimetres, widthCm wide, whose height fits the default view's aspect
 // ratio (r and z share one scale), with room for the title and colour bar.
 func (s *Solution) FigureSize(widthCm float64) (w, h float64) {
-	v := s.Model.conductorWindow(0.25)
+	v := s.Model.ConductorWindow(0.25)
 	if v == nil || v.RMax <= v.RMin {
 		return widthCm, widthCm
 	}
@@ -120,9 +120,9 @@ func (s *Solution) FigureSize(widthCm float64) (w, h float64) {
 	return widthCm, math.Min(math.Max(h, 0.5*widthCm), 2.5*widthCm)
 }
 
-// conductorWindow is the bounding box of every conductor region of the model's mesh, grown by margin times its
+// ConductorWindow is the bounding box of every conductor region of the model's mesh, grown by margin times its
 // size on each side and starting at r = 0.
-func (md *Model) conductorWindow(margin float64) *plot.Window {
+func (md *Model) ConductorWindow(margin float64) *plot.Window {
 	m := md.Mesh
 	w := plot.Window{RMin: 0, RMax: math.Inf(-1), ZMin: math.Inf(1), ZMax: math.Inf(-1)}
 	for t, tri := range m.Tris {
