@@ -265,4 +265,3 @@ func (r *Result) MapFigure(s Snapshot) (*plot.Figure, error) {
 	}
 	return plot.FieldMap(m, spec)
 }
-
