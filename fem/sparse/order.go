@@ -139,8 +139,9 @@ type dissector struct {
 	out   []int32
 }
 
-// coordND orders set by recursive coordinate bisection: split at the median along the longer extent, take as
-// separator the smaller of the two sets of boundary vertices (those with a neighbour across the cut), order the
+// coordND orders set by recursive coordinate bisection: split at the median along the longer extent (or, when
+// that cut is long for the set's size, at the best of several ranks along either axis), take as separator the
+// smaller of the two sets of boundary vertices (those with a neighbour across the cut), order the
 // two remaining halves recursively and the separator last.
 func (d *dissector) coordND(set []int32) {
 	if len(set) <= leafSize {
@@ -154,14 +155,41 @@ func (d *dissector) coordND(set []int32) {
 		x0, x1 = min(x0, p[0]), max(x1, p[0])
 		y0, y1 = min(y0, p[1]), max(y1, p[1])
 	}
-	axis := 0
-	if y1-y0 > x1-x0 {
-		axis = 1
-	}
-	mid := len(set) / 2
-	selectByCoord(set, mid, xy, axis)
-	left, right := set[:mid], set[mid:]
+	// Candidate cuts: both axes, at several ranks about the median. A graded mesh is dense near conductor
+	// surfaces, so a straight cut at the median often runs along a fine region; a cut a little off the median can
+	// cross far fewer vertices. Pick the cut with the smallest separator per vertex of the smaller side.
 	const sideL, sideR = 1, 2
+	type cut struct {
+		axis, rank int
+		score      float64
+	}
+	longer := 0
+	if y1-y0 > x1-x0 {
+		longer = 1
+	}
+	half := len(set) / 2
+	selectByCoord(set, half, xy, longer)
+	best := cut{longer, half, float64(d.boundaryCount(set[:half], set[half:])) / float64(min(half, len(set)-half))}
+	// A median cut through a uniform 2D mesh leaves a separator of about √n vertices (score·√n near 2 to 4 for
+	// linear and quadratic elements); only a cut well above that is worth the search.
+	if len(set) >= ndTrialMin && best.score*math.Sqrt(float64(len(set))) > ndSearchAbove {
+		for _, axis := range []int{0, 1} {
+			for _, fr := range [...]float64{0.25, 0.33, 0.42, 0.5, 0.58, 0.67, 0.75} {
+				k := int(fr * float64(len(set)))
+				if k <= 0 || k >= len(set) || (axis == longer && k == half) {
+					continue
+				}
+				selectByCoord(set, k, xy, axis)
+				score := float64(d.boundaryCount(set[:k], set[k:])) / float64(min(k, len(set)-k))
+				if score < best.score {
+					best = cut{axis, k, score}
+				}
+			}
+		}
+	}
+	mid := best.rank
+	selectByCoord(set, mid, xy, best.axis)
+	left, right := set[:mid], set[mid:]
 	for _, v := range left {
 		d.mark[v] = sideL
 	}
@@ -214,6 +242,44 @@ func (d *dissector) coordND(set []int32) {
 	d.coordND(set[:na])
 	d.coordND(set[na : na+nb])
 	d.out = append(d.out, sep...)
+}
+
+// ndTrialMin is the set size from which coordND may try cuts other than the median.
+const ndTrialMin = 500
+
+// ndSearchAbove is the normalised separator size (separator over the smaller side, times √n) of a median cut
+// above which coordND searches other cuts.
+const ndSearchAbove = 3.0
+
+
+// boundaryCount marks left and right, counts the vertices of the smaller boundary (those with a neighbour on the
+// other side), and clears the marks again.
+func (d *dissector) boundaryCount(left, right []int32) int {
+	const sideL, sideR = 1, 2
+	for _, v := range left {
+		d.mark[v] = sideL
+	}
+	for _, v := range right {
+		d.mark[v] = sideR
+	}
+	nl, nr := 0, 0
+	for _, v := range left {
+		if d.touches(v, sideR) {
+			nl++
+		}
+	}
+	for _, v := range right {
+		if d.touches(v, sideL) {
+			nr++
+		}
+	}
+	for _, v := range left {
+		d.mark[v] = 0
+	}
+	for _, v := range right {
+		d.mark[v] = 0
+	}
+	return min(nl, nr)
 }
 
 func (d *dissector) touches(v int32, side int32) bool {
