@@ -251,7 +251,6 @@ const ndTrialMin = 500
 // above which coordND searches other cuts.
 const ndSearchAbove = 3.0
 
-
 // boundaryCount marks left and right, counts the vertices of the smaller boundary (those with a neighbour on the
 // other side), and clears the marks again.
 func (d *dissector) boundaryCount(left, right []int32) int {
