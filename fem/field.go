@@ -32,13 +32,20 @@ type QuadPoint struct {
 
 // EachPoint calls fn for every quadrature point of every triangle, in triangle order. The rule is the one the
 // assembly used (Radon's 7 points, 28 on triangles touching the axis).
-func (s *Solution) EachPoint(fn func(QuadPoint)) {
+func (s *Solution) EachPoint(fn func(QuadPoint)) { s.eachPointIn(nil, fn) }
+
+// eachPointIn is EachPoint over the triangles whose region index (−1 for untagged air) keep accepts; nil keeps
+// every triangle. Skipped triangles cost nothing.
+func (s *Solution) eachPointIn(keep func(ri int) bool, fn func(QuadPoint)) {
 	m := s.Mesh
 	nl := s.Order.NumNodes()
 	nd := make([]int, nl)
 	sh, dr, dz := make([]float64, nl), make([]float64, nl), make([]float64, nl)
 	w := 2 * math.Pi * s.Frequency
 	for t, tri := range m.Tris {
+		if keep != nil && !keep(s.elemRg[t]) {
+			continue
+		}
 		var p [3][2]float64
 		axis := false
 		for k, v := range tri {
@@ -126,18 +133,27 @@ func (s *Solution) RegionPower(tag int32) float64 {
 // ½∮ (ν0/R)|A|² dS (for a dipole A = C sinθ/ρ², ∫_{ρ>R} ν|B|² dV = ∮ (ν/R)|A|² dS = 8πν|C|²/(3R³)). With an
 // applied field the exterior energy is unbounded and only the mesh's part is returned.
 func (s *Solution) MagneticEnergy() float64 {
-	e := s.interiorEnergy()
-	if s.AppliedBz == 0 {
-		e += s.robinEnergy()
+	return s.interiorEnergy() + s.BoundaryEnergy()
+}
+
+// BoundaryEnergy is the part of MagneticEnergy that lies outside the mesh, J: the Robin boundary's exterior term
+// ½∮(ν0/R)|A|² dS when no field is applied, else 0.
+func (s *Solution) BoundaryEnergy() float64 {
+	if s.AppliedBz != 0 {
+		return 0
 	}
-	return e
+	return s.robinEnergy()
+}
+
+// EnergyDensity is the time-averaged magnetic energy density at a quadrature point, ν|B|²/2 with rms B, J/m³;
+// times q.Weight it is the point's share of the stored energy.
+func EnergyDensity(q QuadPoint) float64 {
+	return (sq(cmplx.Abs(q.Br)) + sq(cmplx.Abs(q.Bz))) / (2 * Mu0 * q.MuR)
 }
 
 func (s *Solution) interiorEnergy() float64 {
 	var e float64
-	s.EachPoint(func(q QuadPoint) {
-		e += (sq(cmplx.Abs(q.Br)) + sq(cmplx.Abs(q.Bz))) / (2 * Mu0 * q.MuR) * q.Weight
-	})
+	s.EachPoint(func(q QuadPoint) { e += EnergyDensity(q) * q.Weight })
 	return e
 }
 

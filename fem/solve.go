@@ -163,10 +163,8 @@ func (a *Assembler) solution(f float64, m *sparse.Matrix, b, x []complex128, st 
 		}
 	}
 	// Stranded flux linkage jω ∫ (N s/area) 2πr A, accumulated over the blocks' quadrature points.
-	s.EachPoint(func(q QuadPoint) {
-		if q.Region < 0 || s.Regions[q.Region].Kind != Stranded {
-			return
-		}
+	stranded := func(ri int) bool { return ri >= 0 && s.Regions[ri].Kind == Stranded }
+	s.eachPointIn(stranded, func(q QuadPoint) {
 		r := s.Regions[q.Region]
 		js := float64(r.Strands*r.Sense) / s.areas[q.Region]
 		s.CoilV[r.Coil] += jw * complex(js*q.Weight, 0) * q.A

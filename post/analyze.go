@@ -180,7 +180,9 @@ func Analyze(sol *fem.Solution, opt Options) (*Result, error) {
 	intA := make([]complex128, len(sol.Regions)) // ∫ A 2πr dr dz, for stranded flux linkage
 	area := make([]float64, len(sol.Regions))    // ∫ dr dz
 	skin := make([]float64, len(parts))
+	var energy float64 // ∫ ν|B|²/2 dV over the mesh
 	sol.EachPoint(func(q fem.QuadPoint) {
+		energy += fem.EnergyDensity(q) * q.Weight
 		for _, pi := range shells[q.Elem] {
 			res.Parts[pi].ForceZStress += stressDensity(q.Br, q.Bz, parts[pi].sh.grad[q.Elem]) * q.Weight
 		}
@@ -271,7 +273,7 @@ func Analyze(sol *fem.Solution, opt Options) (*Result, error) {
 
 	// Energy balance with the losses found above (fem.Solution.BalanceError's definition, without its extra
 	// passes over the mesh).
-	res.StoredEnergy = sol.MagneticEnergy()
+	res.StoredEnergy = energy + sol.BoundaryEnergy() // fem.Solution.MagneticEnergy, from the pass above
 	res.BalanceError = math.NaN()
 	var supplied complex128
 	for ci := range sol.Coils {
