@@ -17,6 +17,7 @@ import (
 type Solver struct {
 	asm     *Assembler
 	sym     *sparse.Symbolic
+	fac     *sparse.Factor // SolveAt's factorisation, refactored in place by later calls
 	asmTime time.Duration
 	near    *nearState // SolveNear's anchor factorisation and recent solutions (shift.go)
 }
@@ -76,10 +77,18 @@ func (s *Solver) SolveAt(f float64, ov ...Override) (*Solution, error) {
 		}
 		s.sym = sym
 	}
-	fac, err := s.sym.Factor(m)
+	// A later solve refactors in place: same pattern, same storage, no new L to allocate and touch.
+	var err error
+	if s.fac == nil {
+		s.fac, err = s.sym.Factor(m)
+	} else {
+		err = s.fac.Refactor(m)
+	}
 	if err != nil {
+		s.fac = nil
 		return nil, fmt.Errorf("factorising the %d-unknown system: %w", a.n, err)
 	}
+	fac := s.fac
 	st.Factor = time.Since(t0)
 	t0 = time.Now()
 	x := make([]complex128, a.n)
