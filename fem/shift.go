@@ -1,7 +1,6 @@
 package fem
 
 import (
-	"fmt"
 	"math"
 	"math/cmplx"
 	"slices"
@@ -98,33 +97,11 @@ func (s *Solver) SolveNear(f float64) (*Solution, error) {
 	}
 	// Direct: factorise at f and keep the factor as the anchor.
 	t0 = time.Now()
-	if s.sym == nil {
-		sym, err := sparse.Analyze(m, sparse.Options{Coords: a.Coords()})
-		if err != nil {
-			return nil, fmt.Errorf("analysing the %d-unknown system: %w", a.n, err)
-		}
-		s.sym = sym
-	}
 	ns.anchored = false
-	if ns.fac == nil {
-		fac, err := s.sym.Factor(m)
-		if err != nil {
-			return nil, fmt.Errorf("factorising the %d-unknown system: %w", a.n, err)
-		}
-		ns.fac = fac
-	} else if err := ns.fac.Refactor(m); err != nil {
-		return nil, fmt.Errorf("factorising the %d-unknown system: %w", a.n, err)
-	}
-	fac := ns.fac
-	st.Factor = time.Since(t0)
-	t0 = time.Now()
-	x := make([]complex128, a.n)
-	info, err := fac.Solve(x, b)
-	st.Residual = info.Residual
+	x, err := s.factorSolve(&ns.fac, m, b, &st, t0)
 	if err != nil {
-		return nil, fmt.Errorf("solving the %d-unknown system: %w", a.n, err)
+		return nil, err
 	}
-	st.Solve = time.Since(t0)
 	ns.anchored, ns.anchorF = true, f
 	ns.keep(x)
 	return a.solution(f, m, b, x, st), nil

@@ -70,36 +70,46 @@ func (s *Solver) SolveAt(f float64, ov ...Override) (*Solution, error) {
 	m, b := a.System(f)
 	st.Assemble += time.Since(t0)
 	t0 = time.Now()
+	x, err := s.factorSolve(&s.fac, m, b, &st, t0)
+	if err != nil {
+		return nil, err
+	}
+	st.Unknowns, st.NonZeros = a.n, m.Nnz()
+	return a.solution(f, m, b, x, st), nil
+}
+
+// factorSolve analyses m's pattern on first use, factors m into *fac (refactoring in place when *fac already holds a factorisation of this pattern:
+// same storage, no new L to allocate and touch), solves m x = b, and records the factor time (from t0) and the
+// solve time and residual in st. A failed factorisation leaves *fac nil.
+func (s *Solver) factorSolve(fac **sparse.Factor, m *sparse.Matrix, b []complex128, st *Stats, t0 time.Time) ([]complex128, error) {
+	n := len(b)
 	if s.sym == nil {
-		sym, err := sparse.Analyze(m, sparse.Options{Coords: a.Coords()})
+		sym, err := sparse.Analyze(m, sparse.Options{Coords: s.asm.Coords()})
 		if err != nil {
-			return nil, fmt.Errorf("analysing the %d-unknown system: %w", a.n, err)
+			return nil, fmt.Errorf("analysing the %d-unknown system: %w", n, err)
 		}
 		s.sym = sym
 	}
-	// A later solve refactors in place: same pattern, same storage, no new L to allocate and touch.
 	var err error
-	if s.fac == nil {
-		s.fac, err = s.sym.Factor(m)
+	if *fac == nil {
+		*fac, err = s.sym.Factor(m)
 	} else {
-		err = s.fac.Refactor(m)
+		err = (*fac).Refactor(m)
 	}
 	if err != nil {
-		s.fac = nil
-		return nil, fmt.Errorf("factorising the %d-unknown system: %w", a.n, err)
+		*fac = nil
+		return nil, fmt.Errorf("factorising the %d-unknown system: %w", n, err)
 	}
-	fac := s.fac
 	st.Factor = time.Since(t0)
 	t0 = time.Now()
-	x := make([]complex128, a.n)
-	info, err := fac.Solve(x, b)
+	x := make([]complex128, n)
+	info, err := (*fac).Solve(x, b)
 	st.Residual = info.Residual
 	if err != nil {
-		return nil, fmt.Errorf("solving the %d-unknown system: %w", a.n, err)
+		return nil, fmt.Errorf("solving the %d-unknown system: %w", n, err)
 	}
 	st.Solve = time.Since(t0)
-	st.Unknowns, st.NonZeros = a.n, m.Nnz()
-	return a.solution(f, m, b, x, st), nil
+	return x, nil
 }
 
 // Solution is the result of one harmonic solve. All phasors are RMS.
