@@ -190,23 +190,7 @@ func (d *dissector) coordND(set []int32) {
 	mid := best.rank
 	selectByCoord(set, mid, xy, best.axis)
 	left, right := set[:mid], set[mid:]
-	for _, v := range left {
-		d.mark[v] = sideL
-	}
-	for _, v := range right {
-		d.mark[v] = sideR
-	}
-	nl, nr := 0, 0
-	for _, v := range left {
-		if d.touches(v, sideR) {
-			nl++
-		}
-	}
-	for _, v := range right {
-		if d.touches(v, sideL) {
-			nr++
-		}
-	}
+	nl, nr := d.markSides(left, right)
 	// Partition into [part A | part B | separator] in a fresh slice so the recursion can reuse set's storage.
 	sepSide, cross := int32(sideL), int32(sideR)
 	if nr < nl {
@@ -251,9 +235,9 @@ const ndTrialMin = 500
 // above which coordND searches other cuts.
 const ndSearchAbove = 3.0
 
-// boundaryCount marks left and right, counts the vertices of the smaller boundary (those with a neighbour on the
-// other side), and clears the marks again.
-func (d *dissector) boundaryCount(left, right []int32) int {
+// markSides labels left and right (sides 1 and 2) and counts the vertices of each that have a neighbour on the
+// other side.
+func (d *dissector) markSides(left, right []int32) (nl, nr int) {
 	const sideL, sideR = 1, 2
 	for _, v := range left {
 		d.mark[v] = sideL
@@ -261,7 +245,6 @@ func (d *dissector) boundaryCount(left, right []int32) int {
 	for _, v := range right {
 		d.mark[v] = sideR
 	}
-	nl, nr := 0, 0
 	for _, v := range left {
 		if d.touches(v, sideR) {
 			nl++
@@ -272,6 +255,12 @@ func (d *dissector) boundaryCount(left, right []int32) int {
 			nr++
 		}
 	}
+	return nl, nr
+}
+
+// boundaryCount is the size of the smaller boundary of a trial cut (see markSides); it leaves no marks.
+func (d *dissector) boundaryCount(left, right []int32) int {
+	nl, nr := d.markSides(left, right)
 	for _, v := range left {
 		d.mark[v] = 0
 	}
