@@ -21,6 +21,9 @@ import (
 type Options struct {
 	// SkipStress turns off the Maxwell-stress cross-check of the parts' axial forces.
 	SkipStress bool
+	// PowerOnly keeps what a frequency sweep reads (impedances, region powers, forces, energy, balance) and
+	// skips where the heat sits in each part (peak density, skin share and thirds are NaN) and the stress check.
+	PowerOnly bool
 	// MeshTime is how long the caller spent meshing, reported in the timings.
 	MeshTime time.Duration
 }
@@ -150,7 +153,7 @@ func Analyze(sol *fem.Solution, opt Options) (*Result, error) {
 			ZMin: pw.o.lo.Y, ZMax: pw.o.hi.Y, PeakR: math.NaN(), PeakZ: math.NaN(), MuR: r.MuR}
 		if len(pw.o.elems) == 0 {
 			pr.StressNote = "part has no triangles in the mesh"
-		} else if opt.SkipStress {
+		} else if opt.SkipStress || opt.PowerOnly {
 			pr.StressNote = "skipped"
 		} else {
 			var note string
@@ -204,6 +207,9 @@ func Analyze(sol *fem.Solution, opt Options) (*Result, error) {
 		pr, pw := &res.Parts[pi], parts[pi]
 		pr.ForceZ += lorentzFz(q)
 		pr.ForceR += lorentzFr(q)
+		if opt.PowerOnly {
+			return
+		}
 		pr.peak(p, q.R, q.Z)
 		if pw.o.distWithin(pointRZ(q.R, q.Z), pw.delta) <= pw.delta {
 			skin[pi] += p * q.Weight
@@ -215,11 +221,17 @@ func Analyze(sol *fem.Solution, opt Options) (*Result, error) {
 		pr := &res.Parts[pi]
 		pr.Power = loss[pw.ri]
 		pr.SkinShare = math.NaN()
-		if pr.Power > 0 {
+		if opt.PowerOnly {
+			pr.PeakDensity = math.NaN()
+			pr.Thirds = [3]float64{math.NaN(), math.NaN(), math.NaN()}
+		} else if pr.Power > 0 {
 			pr.SkinShare = skin[pi] / pr.Power
 		}
 		if pr.ForceZ != 0 {
 			pr.StressDiff = math.Abs(pr.ForceZStress-pr.ForceZ) / math.Abs(pr.ForceZ)
+		}
+		if opt.PowerOnly {
+			continue
 		}
 		// The surface value is the peak in a skin-effect profile; nodes on the surface catch it.
 		for _, t := range pw.o.elems {

@@ -224,3 +224,25 @@ func TestSphereInUniformField(t *testing.T) {
 	t.Logf("P = %.6g W (closed form %.6g), share %.4f (classical %.4f), stress %g N vs %g N",
 		p.Power, want, p.SkinShare, sphereSkinShare(a, delta), p.ForceZStress, p.ForceZ)
 }
+
+// PowerOnly gives the same impedances, powers, forces and energy as the full analysis, and leaves the heat
+// distribution (peak, skin share, thirds) and the stress check out.
+func TestPowerOnly(t *testing.T) {
+	sc := levitator(0.003, -0.006, 0, 0.006)
+	sol, full := sc.solve(t)
+	light, err := Analyze(sol, Options{PowerOnly: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	near(t, "part power", light.Parts[0].Power, full.Parts[0].Power, 1e-12)
+	near(t, "force", light.Parts[0].ForceZ, full.Parts[0].ForceZ, 1e-12)
+	near(t, "energy", light.StoredEnergy, full.StoredEnergy, 1e-12)
+	near(t, "efficiency", light.Efficiency, full.Efficiency, 1e-12)
+	nearC(t, "impedance", light.Coils[0].Impedance, full.Coils[0].Impedance, 1e-12)
+	p := light.Parts[0]
+	for name, v := range map[string]float64{"peak": p.PeakDensity, "skin share": p.SkinShare, "third": p.Thirds[1], "stress": p.ForceZStress} {
+		if !math.IsNaN(v) {
+			t.Errorf("PowerOnly left %s = %g, want NaN", name, v)
+		}
+	}
+}

@@ -16,7 +16,7 @@ func (sw *Sweeper) SolveNear(f float64) (*Solution, error) {
 	if err != nil {
 		return nil, fmt.Errorf("solving %s at %g Hz: %w", sw.md.Job.File, f, err)
 	}
-	return sw.md.analyzeWith(sol, post.Options{MeshTime: sw.md.MeshTime, SkipStress: true})
+	return sw.md.analyzeWith(sol, post.Options{MeshTime: sw.md.MeshTime, PowerOnly: true})
 }
 
 // ResetNear forgets SolveNear's anchor factorisation and remembered solutions.
