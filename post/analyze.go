@@ -22,7 +22,8 @@ type Options struct {
 	// SkipStress turns off the Maxwell-stress cross-check of the parts' axial forces.
 	SkipStress bool
 	// PowerOnly keeps what a frequency sweep reads (impedances, region powers, forces, energy, balance) and
-	// skips where the heat sits in each part (peak density, skin share and thirds are NaN) and the stress check.
+	// skips where the heat sits in each part (peak density, skin share, thirds and z extent are NaN) and the
+	// stress check.
 	PowerOnly bool
 	// MeshTime is how long the caller spent meshing, reported in the timings.
 	MeshTime time.Duration
@@ -126,7 +127,10 @@ func Analyze(sol *fem.Solution, opt Options) (*Result, error) {
 		return nil, fmt.Errorf("analyze: solution has %d potentials for %d nodes", len(sol.A), len(sol.Mesh.Nodes))
 	}
 	w := 2 * math.Pi * sol.Frequency
-	mi := newMeshInfo(sol)
+	var mi *meshInfo // part outlines and the stress shells' air; not needed for PowerOnly
+	if !opt.PowerOnly {
+		mi = newMeshInfo(sol)
+	}
 	res := &Result{
 		Frequency: sol.Frequency, Nodes: len(sol.Mesh.Nodes), Triangles: len(sol.Mesh.Tris),
 		Unknowns: sol.Stats.Unknowns, AppliedBz: sol.AppliedBz,
@@ -148,12 +152,18 @@ func Analyze(sol *fem.Solution, opt Options) (*Result, error) {
 		if r.Kind != fem.Part {
 			continue
 		}
-		pw := &partWork{ri: ri, o: mi.newOutline(ri), delta: skinDepth(w, r.Sigma, r.MuR)}
+		pw := &partWork{ri: ri, delta: skinDepth(w, r.Sigma, r.MuR)}
 		pr := PartResult{Name: r.Name, ForceZStress: math.NaN(), StressDiff: math.NaN(), SkinDepth: pw.delta,
-			ZMin: pw.o.lo.Y, ZMax: pw.o.hi.Y, PeakR: math.NaN(), PeakZ: math.NaN(), MuR: r.MuR}
-		if len(pw.o.elems) == 0 {
+			ZMin: math.NaN(), ZMax: math.NaN(), PeakR: math.NaN(), PeakZ: math.NaN(), MuR: r.MuR}
+		if mi != nil {
+			pw.o = mi.newOutline(ri)
+			pr.ZMin, pr.ZMax = pw.o.lo.Y, pw.o.hi.Y
+		}
+		if opt.PowerOnly {
+			pr.StressNote = "skipped"
+		} else if len(pw.o.elems) == 0 {
 			pr.StressNote = "part has no triangles in the mesh"
-		} else if opt.SkipStress || opt.PowerOnly {
+		} else if opt.SkipStress {
 			pr.StressNote = "skipped"
 		} else {
 			var note string

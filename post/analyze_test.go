@@ -240,7 +240,7 @@ func TestPowerOnly(t *testing.T) {
 	near(t, "efficiency", light.Efficiency, full.Efficiency, 1e-12)
 	nearC(t, "impedance", light.Coils[0].Impedance, full.Coils[0].Impedance, 1e-12)
 	p := light.Parts[0]
-	for name, v := range map[string]float64{"peak": p.PeakDensity, "skin share": p.SkinShare, "third": p.Thirds[1], "stress": p.ForceZStress} {
+	for name, v := range map[string]float64{"peak": p.PeakDensity, "skin share": p.SkinShare, "third": p.Thirds[1], "stress": p.ForceZStress, "z extent": p.ZMin} {
 		if !math.IsNaN(v) {
 			t.Errorf("PowerOnly left %s = %g, want NaN", name, v)
 		}
