@@ -477,13 +477,18 @@ func (f *Factor) Solve(x, b []complex128) (SolveInfo, error) {
 		}
 		normB = max(normB, cabs(v))
 	}
-	rhs := slices.Clone(b)
-	y := make([]complex128, n)
+	rhs := b
+	if n > 0 && &x[0] == &b[0] {
+		rhs = slices.Clone(b) // x overwrites b: keep the right-hand side for the residual
+	}
 	r := make([]complex128, n)
 	f.solveOnce(x, rhs)
 	info := SolveInfo{Residual: f.residual(r, x, rhs, normB)}
-	best := slices.Clone(x)
+	var y, best []complex128 // refinement work space, only when a refinement step is taken
 	for info.Refinements < maxRefine && info.Residual > targetResidual {
+		if y == nil {
+			y, best = make([]complex128, n), slices.Clone(x)
+		}
 		f.solveOnce(y, r) // correction y = A⁻¹ r
 		for i := range x {
 			x[i] += y[i]
@@ -561,13 +566,27 @@ func (f *Factor) solveOnce(x, b []complex128) {
 		yk := y[fc : fc+k]
 		t := tmp[:m-k]
 		clear(t)
+		// The triangle first, then the rows below two columns at a time (one pass over t per pair).
 		for j := 0; j < k; j++ {
 			yj := yk[j]
 			col := L[j*m : j*m+m]
 			for i := j + 1; i < k; i++ {
 				yk[i] -= col[i] * yj
 			}
-			below := col[k:m]
+		}
+		j := 0
+		for ; j+1 < k; j += 2 {
+			y0, y1 := yk[j], yk[j+1]
+			b0 := L[j*m+k : j*m+m]
+			b1 := L[(j+1)*m+k : (j+1)*m+m]
+			b0, b1 = b0[:len(t)], b1[:len(t)]
+			for i := range t {
+				t[i] += b0[i]*y0 + b1[i]*y1
+			}
+		}
+		if j < k {
+			yj := yk[j]
+			below := L[j*m+k : j*m+m]
 			below = below[:len(t)]
 			for i, v := range below {
 				t[i] += v * yj

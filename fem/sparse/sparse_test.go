@@ -555,3 +555,28 @@ func TestApply(t *testing.T) {
 		}
 	}
 }
+
+// Solve may overwrite its right-hand side with the solution (x aliasing b) and still refines against the
+// original right-hand side.
+func TestSolveInPlace(t *testing.T) {
+	rng := rand.New(rand.NewPCG(3, 5))
+	a := randomSym(rng, 200, 4, 2)
+	b := randVec(rng, 200)
+	ref := denseSolve(toDense(a), b)
+	s, err := Analyze(a, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	f, err := s.Factor(a)
+	if err != nil {
+		t.Fatal(err)
+	}
+	x := slices.Clone(b)
+	info, err := f.Solve(x, x)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if d := maxRelDiff(x, ref); d > 1e-10 || info.Residual > 1e-13 {
+		t.Errorf("in-place solve: differs from the dense solution by %.3g, residual %.3g", d, info.Residual)
+	}
+}
