@@ -659,6 +659,12 @@ func (a *Assembler) Size() (unknowns, nonzeros int) { return a.n, a.pat.Nnz() }
 func (a *Assembler) System(f float64) (*sparse.Matrix, []complex128) {
 	m := &sparse.Matrix{N: a.pat.N, ColPtr: a.pat.ColPtr, RowIdx: a.pat.RowIdx, Val: make([]complex128, a.pat.Nnz())}
 	b := make([]complex128, a.n)
+	a.systemInto(f, m, b)
+	return m, b
+}
+
+// systemInto is System writing into m (which must have the assembler's pattern, as System returns it) and b.
+func (a *Assembler) systemInto(f float64, m *sparse.Matrix, b []complex128) {
 	w := 2 * math.Pi * f
 	jw := complex(0, w)
 	ijw := 1 / jw
@@ -668,7 +674,6 @@ func (a *Assembler) System(f float64) (*sparse.Matrix, []complex128) {
 	for i := range b {
 		b[i] = a.r0[i] + jw*a.r1[i] + ijw*a.r2[i]
 	}
-	return m, b
 }
 
 // Coords returns each unknown's (r, z) for the fill-reducing ordering, NaN for circuit unknowns.

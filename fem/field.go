@@ -2,6 +2,7 @@ package fem
 
 import (
 	"bufio"
+	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -275,6 +276,9 @@ func (s *Solution) At(r, z float64) (v FieldValue, ok bool) {
 // turn loop voltages, then currents of voltage-driven coils; rows of circuit unknowns are scaled as in
 // physics.md (divided by jω or −jω).
 func (s *Solution) ExportSystem(dir string) error {
+	if s.sys == nil {
+		return errors.New("export: this solution does not keep its linear system (solutions of Solver.SolveNear share one; solve with Solve or SolveAt to export)")
+	}
 	write := func(name string, body func(w io.Writer) error) error {
 		f, err := os.Create(filepath.Join(dir, name))
 		if err != nil {

@@ -44,15 +44,23 @@ type nearState struct {
 	// never pays for the projections)
 	pending [][]complex128
 	// work space, reused across solves
+	m          *sparse.Matrix
+	b          []complex128
 	v          [][]complex128
 	kx, mx, qx []complex128
+}
+
+// detached drops a SolveNear solution's references to the system, whose storage the next SolveNear re-uses.
+func detached(s *Solution) *Solution {
+	s.sys, s.rhs = nil, nil
+	return s
 }
 
 // ResetNear forgets SolveNear's anchor and remembered solutions, so that the next SolveNear is independent of
 // what came before; the factor's storage is kept for re-use.
 func (s *Solver) ResetNear() {
 	if ns := s.near; ns != nil {
-		*ns = nearState{fac: ns.fac, v: ns.v, kx: ns.kx, mx: ns.mx, qx: ns.qx}
+		*ns = nearState{fac: ns.fac, m: ns.m, b: ns.b, v: ns.v, kx: ns.kx, mx: ns.mx, qx: ns.qx}
 	}
 }
 
@@ -82,7 +90,14 @@ func (s *Solver) SolveNear(f float64) (*Solution, error) {
 	st := Stats{Assemble: s.asmTime}
 	s.asmTime = 0
 	t0 := time.Now()
-	m, b := a.System(f)
+	// A sweep re-uses one matrix and right-hand side: the factor keeps its own copy of the values, and a
+	// SolveNear solution does not keep its system (ExportSystem needs a SolveAt solution).
+	if ns.m == nil {
+		ns.m, ns.b = a.System(f)
+	} else {
+		a.systemInto(f, ns.m, ns.b)
+	}
+	m, b := ns.m, ns.b
 	st.Assemble += time.Since(t0)
 	st.Unknowns, st.NonZeros = a.n, m.Nnz()
 	if ns.anchored && ns.anchorF != f {
@@ -92,7 +107,7 @@ func (s *Solver) SolveNear(f float64) (*Solution, error) {
 		if ok {
 			st.Iterations, st.Residual = its, res
 			ns.keep(x)
-			return a.solution(f, m, b, x, st), nil
+			return detached(a.solution(f, m, b, x, st)), nil
 		}
 	}
 	// Direct: factorise at f and keep the factor as the anchor.
@@ -104,7 +119,7 @@ func (s *Solver) SolveNear(f float64) (*Solution, error) {
 	}
 	ns.anchored, ns.anchorF = true, f
 	ns.keep(x)
-	return a.solution(f, m, b, x, st), nil
+	return detached(a.solution(f, m, b, x, st)), nil
 }
 
 // keep queues a solution for the basis, dropping the oldest queued ones beyond the basis cap.
