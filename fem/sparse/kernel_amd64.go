@@ -34,3 +34,13 @@ func ctile4x3AVX2(a *complex128, lda int, w *complex128, ldw int, c0, c1, c2 *co
 //
 //go:noescape
 func ctile1x3AVX2(a *complex128, lda int, w *complex128, ldw int, c0, c1, c2 *complex128, k, nr int)
+
+// ctile4x1AVX2 is the vector tile4x1Go (see kernel_amd64.s); callers check hasAVX2FMA and every index.
+//
+//go:noescape
+func ctile4x1AVX2(a *complex128, lda int, w *complex128, c *complex128, k, nb int)
+
+// cdot4AVX2 is the vector dot4Go (see kernel_amd64.s); callers check hasAVX2FMA and every index.
+//
+//go:noescape
+func cdot4AVX2(a0, a1, a2, a3 *complex128, gv *complex128, np int, out *[32]float64)

@@ -202,3 +202,118 @@ sloop:
 
 sdone:
 	RET
+
+// func ctile4x1AVX2(a *complex128, lda int, w *complex128, c *complex128, k, nb int)
+// ctile4x3AVX2 for one target column: for nb blocks of 4 rows, c[i] −= Σ_{p<k} a[p·lda + i]·w[p], each entry
+// accumulated exactly as tileEntry does (k ≥ 1). The forward substitution's update of the rows below a panel.
+// Registers: Y0–Y1 Σ a·Re(w) over rows 0–1, 2–3; Y2–Y3 Σ a·Im(w); Y12–Y13 the four a values; Y14–Y15 Re(w), Im(w).
+TEXT ·ctile4x1AVX2(SB), NOSPLIT, $0-48
+	MOVQ a+0(FP), SI
+	MOVQ lda+8(FP), R8
+	SHLQ $4, R8
+	MOVQ w+16(FP), DX
+	MOVQ c+24(FP), R11
+	MOVQ k+32(FP), R14
+	MOVQ nb+40(FP), DI
+	TESTQ DI, DI
+	JZ   udone
+
+ublock:
+	VXORPD Y0, Y0, Y0
+	VXORPD Y1, Y1, Y1
+	VXORPD Y2, Y2, Y2
+	VXORPD Y3, Y3, Y3
+	MOVQ SI, AX
+	MOVQ DX, BX
+	MOVQ R14, CX
+
+uloop:
+	VMOVUPD (AX), Y12
+	VMOVUPD 32(AX), Y13
+	VBROADCASTSD (BX), Y14
+	VBROADCASTSD 8(BX), Y15
+	VFMADD231PD Y14, Y12, Y0
+	VFMADD231PD Y14, Y13, Y1
+	VFMADD231PD Y15, Y12, Y2
+	VFMADD231PD Y15, Y13, Y3
+	ADDQ R8, AX
+	ADDQ $16, BX
+	DECQ CX
+	JNZ  uloop
+
+	VPERMILPD $5, Y2, Y2
+	VADDSUBPD Y2, Y0, Y0
+	VPERMILPD $5, Y3, Y3
+	VADDSUBPD Y3, Y1, Y1
+	VMOVUPD   (R11), Y12
+	VSUBPD    Y0, Y12, Y12
+	VMOVUPD   Y12, (R11)
+	VMOVUPD   32(R11), Y13
+	VSUBPD    Y1, Y13, Y13
+	VMOVUPD   Y13, 32(R11)
+
+	ADDQ $64, SI
+	ADDQ $64, R11
+	DECQ DI
+	JNZ  ublock
+	VZEROUPPER
+
+udone:
+	RET
+
+// func cdot4AVX2(a0, a1, a2, a3 *complex128, gv *complex128, np int, out *[32]float64)
+// Partial dot products of four columns with g over np pairs of entries (2·np complex values; np ≥ 0): for
+// column c, out[8c:8c+4] = Σ_q (a_c ⊙ g) and out[8c+4:8c+8] = Σ_q (a_c ⊙ swap(g)) lane by lane, where for pair q
+// the lanes are (Re a·Re g, Im a·Im g) of entry 2q then of entry 2q+1, and swap exchanges the real and imaginary
+// parts of each g entry; one FMA per lane per pair, q ascending from zero. dotFinish combines them.
+// Registers: Y0–Y3 the ⊙ g sums, Y4–Y7 the ⊙ swap(g) sums, Y8 g, Y9 swap(g), Y10 a.
+TEXT ·cdot4AVX2(SB), NOSPLIT, $0-56
+	MOVQ a0+0(FP), SI
+	MOVQ a1+8(FP), DI
+	MOVQ a2+16(FP), R8
+	MOVQ a3+24(FP), R9
+	MOVQ gv+32(FP), DX
+	MOVQ np+40(FP), CX
+	MOVQ out+48(FP), R11
+	VXORPD Y0, Y0, Y0
+	VXORPD Y1, Y1, Y1
+	VXORPD Y2, Y2, Y2
+	VXORPD Y3, Y3, Y3
+	VXORPD Y4, Y4, Y4
+	VXORPD Y5, Y5, Y5
+	VXORPD Y6, Y6, Y6
+	VXORPD Y7, Y7, Y7
+	XORQ BX, BX
+	TESTQ CX, CX
+	JZ   dstore
+
+dloop:
+	VMOVUPD (DX)(BX*1), Y8
+	VPERMILPD $5, Y8, Y9
+	VMOVUPD (SI)(BX*1), Y10
+	VFMADD231PD Y8, Y10, Y0
+	VFMADD231PD Y9, Y10, Y4
+	VMOVUPD (DI)(BX*1), Y10
+	VFMADD231PD Y8, Y10, Y1
+	VFMADD231PD Y9, Y10, Y5
+	VMOVUPD (R8)(BX*1), Y10
+	VFMADD231PD Y8, Y10, Y2
+	VFMADD231PD Y9, Y10, Y6
+	VMOVUPD (R9)(BX*1), Y10
+	VFMADD231PD Y8, Y10, Y3
+	VFMADD231PD Y9, Y10, Y7
+	ADDQ $32, BX
+	DECQ CX
+	JNZ  dloop
+
+dstore:
+	VMOVUPD Y0, (R11)
+	VMOVUPD Y4, 32(R11)
+	VMOVUPD Y1, 64(R11)
+	VMOVUPD Y5, 96(R11)
+	VMOVUPD Y2, 128(R11)
+	VMOVUPD Y6, 160(R11)
+	VMOVUPD Y3, 192(R11)
+	VMOVUPD Y7, 224(R11)
+	VZEROUPPER
+	RET

@@ -533,9 +533,6 @@ func (f *Factor) residual(r, x, b []complex128, normB float64) float64 {
 	return res
 }
 
-// solveOnce sets x = A⁻¹ b by permutation, forward substitution, diagonal scaling and back substitution. Each
-// supernode's own pivots are contiguous in y, so only its rows below them go through the index list, gathered or
-// scattered once per supernode.
 // Apply sets x = (L D Lᵀ)⁻¹ b with the factorisation as it stands: one forward, diagonal and back substitution,
 // no refinement and no residual check. It is the cheap step for using a factorisation as a preconditioner
 // (of a nearby matrix, say); Solve is the checked solve of the factored matrix itself. x and b may alias.
@@ -547,92 +544,6 @@ func (f *Factor) Apply(x, b []complex128) {
 		panic(fmt.Sprintf("sparse: Apply lengths %d, %d for N=%d", len(x), len(b), f.s.n))
 	}
 	f.solveOnce(x, b)
-}
-
-func (f *Factor) solveOnce(x, b []complex128) {
-	s := f.s
-	y := make([]complex128, s.n)
-	for k, old := range s.perm {
-		y[k] = b[old]
-	}
-	tmp := make([]complex128, s.stats.MaxFront)
-	ns := len(s.first) - 1
-	for sn := 0; sn < ns; sn++ {
-		fc := int(s.first[sn])
-		k := int(s.first[sn+1]) - fc
-		rows := s.rows[s.rowPtr[sn]:s.rowPtr[sn+1]]
-		m := len(rows)
-		L := s.block(f.lx, sn)
-		yk := y[fc : fc+k]
-		t := tmp[:m-k]
-		clear(t)
-		// The triangle first, then the rows below two columns at a time (one pass over t per pair).
-		for j := 0; j < k; j++ {
-			yj := yk[j]
-			col := L[j*m : j*m+m]
-			for i := j + 1; i < k; i++ {
-				yk[i] -= col[i] * yj
-			}
-		}
-		j := 0
-		for ; j+1 < k; j += 2 {
-			y0, y1 := yk[j], yk[j+1]
-			b0 := L[j*m+k : j*m+m]
-			b1 := L[(j+1)*m+k : (j+1)*m+m]
-			b0, b1 = b0[:len(t)], b1[:len(t)]
-			for i := range t {
-				t[i] += b0[i]*y0 + b1[i]*y1
-			}
-		}
-		if j < k {
-			yj := yk[j]
-			below := L[j*m+k : j*m+m]
-			below = below[:len(t)]
-			for i, v := range below {
-				t[i] += v * yj
-			}
-		}
-		for i, r := range rows[k:] {
-			y[r] -= t[i]
-		}
-	}
-	for sn := 0; sn < ns; sn++ {
-		fc := int(s.first[sn])
-		k := int(s.first[sn+1]) - fc
-		m := s.rowPtr[sn+1] - s.rowPtr[sn]
-		L := s.block(f.lx, sn)
-		for j := 0; j < k; j++ {
-			y[fc+j] /= L[j*m+j]
-		}
-	}
-	for sn := ns - 1; sn >= 0; sn-- {
-		fc := int(s.first[sn])
-		k := int(s.first[sn+1]) - fc
-		rows := s.rows[s.rowPtr[sn]:s.rowPtr[sn+1]]
-		m := len(rows)
-		L := s.block(f.lx, sn)
-		yk := y[fc : fc+k]
-		g := tmp[:m-k]
-		for i, r := range rows[k:] {
-			g[i] = y[r]
-		}
-		for j := k - 1; j >= 0; j-- {
-			col := L[j*m : j*m+m]
-			var sum complex128
-			for i := j + 1; i < k; i++ {
-				sum += col[i] * yk[i]
-			}
-			below := col[k:m]
-			below = below[:len(g)]
-			for i, v := range below {
-				sum += v * g[i]
-			}
-			yk[j] -= sum
-		}
-	}
-	for k, old := range s.perm {
-		x[old] = y[k]
-	}
 }
 
 func (s *Symbolic) block(lx []complex128, sn int) []complex128 { return lx[s.lOff[sn]:s.lOff[sn+1]] }
