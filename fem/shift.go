@@ -43,6 +43,9 @@ type nearState struct {
 	// pending solutions, added to the basis only when an iterative solve needs it (a sweep of direct solves
 	// never pays for the projections)
 	pending [][]complex128
+	// wt, when set, weights the inner product the basis is orthonormalised in (Σ wt_i conj(u_i) v_i); nil means
+	// the plain Hermitian one
+	wt []float64
 	// work space, reused across solves
 	m          *sparse.Matrix
 	b          []complex128
@@ -140,17 +143,17 @@ func (s *Solver) enrich(vs ...[]complex128) {
 			return
 		}
 		v := slices.Clone(v0)
-		orig := norm2(v)
+		orig := ns.norm(v)
 		if orig == 0 {
 			continue
 		}
 		for pass := 0; pass < 2; pass++ {
 			for _, u := range ns.basis {
-				axpy(v, u, -dotc(u, v))
+				axpy(v, u, -ns.dot(u, v))
 			}
 		}
-		nv := norm2(v)
-		if !(nv > 1e-10*orig) {
+		nv := ns.norm(v)
+		if !(nv > 1e-13*orig) {
 			continue
 		}
 		for i := range v {
@@ -179,6 +182,24 @@ func (s *Solver) enrich(vs ...[]complex128) {
 		ns.b2 = append(ns.b2, dotc(v, a.r2))
 	}
 }
+
+// dot is the basis inner product of u and v (see wt).
+func (ns *nearState) dot(u, v []complex128) complex128 {
+	if ns.wt == nil {
+		return dotc(u, v)
+	}
+	v = v[:len(u)]
+	wt := ns.wt[:len(u)]
+	var re, im float64
+	for i, x := range u {
+		y := v[i]
+		re += wt[i] * (real(x)*real(y) + imag(x)*imag(y))
+		im += wt[i] * (real(x)*imag(y) - imag(x)*real(y))
+	}
+	return complex(re, im)
+}
+
+func (ns *nearState) norm(v []complex128) float64 { return math.Sqrt(real(ns.dot(v, v))) }
 
 // mulKMQ sets kx = K x, mx = M x and qx = Q x for the frequency-independent parts of the symmetric system.
 func (a *Assembler) mulKMQ(kx, mx, qx, x []complex128) {
@@ -352,12 +373,12 @@ func (s *Solver) iterate(f float64, m *sparse.Matrix, b []complex128) (x []compl
 
 // galerkinStart sets x to the Galerkin solution in the reduced basis X: x = X y with
 // Xᴴ A(ω) X y = Xᴴ b(ω), a small dense system assembled from the stored projections; x stays zero without a
-// basis or when the small system is singular.
-func (s *Solver) galerkinStart(x []complex128, w float64) {
+// basis or when the small system is singular (and false is returned then).
+func (s *Solver) galerkinStart(x []complex128, w float64) bool {
 	ns := s.near
 	p := len(ns.basis)
 	if p == 0 {
-		return
+		return false
 	}
 	jw := complex(0, w)
 	ijw := 1 / jw
@@ -371,11 +392,12 @@ func (s *Solver) galerkinStart(x []complex128, w float64) {
 		y[i] = ns.b0[i] + jw*ns.b1[i] + ijw*ns.b2[i]
 	}
 	if !solveDense(g, y) {
-		return
+		return false
 	}
 	for i, u := range ns.basis {
 		axpy(x, u, y[i])
 	}
+	return true
 }
 
 // solveDense overwrites y with g⁻¹ y by Gaussian elimination with partial pivoting (g is destroyed); false

@@ -50,6 +50,10 @@ type Stats struct {
 	Solve              time.Duration // triangular solves with refinement
 	Residual           float64
 	Iterations         int // preconditioned GMRES iterations of SolveNear, 0 for a direct solve
+	// Basis is the reduced-basis size a Sweep point was taken from, 0 for a factorised solve; Indicator is then
+	// its accepted weighted residual (see SweepTolerance).
+	Basis     int
+	Indicator float64
 }
 
 // SolveAt solves at frequency f (Hz) after applying material overrides (which persist for later calls).

@@ -13,7 +13,6 @@ import (
 	"runtime"
 	"slices"
 	"strings"
-	"sync"
 	"time"
 
 	"eddyrz/geometry"
@@ -109,10 +108,11 @@ type SweepPoint struct {
 	Efficiency   float64
 	BalanceError float64
 	Unknowns     int
-	// Iterations is the number of preconditioned GMRES iterations that solved this point, 0 where it was
-	// factorised directly.
-	Iterations int
-	Elapsed    time.Duration // this point's solve and analysis
+	// Basis is the size of the reduced basis this point was taken from, 0 where it was factorised; Indicator is
+	// then its accepted weighted residual (fem.SweepTolerance).
+	Basis     int
+	Indicator float64
+	Elapsed   time.Duration // this point's assembly and solve
 }
 
 // SweepResult is a frequency sweep of one model.
@@ -142,28 +142,15 @@ func SweepJob(job *geometry.Job, freqs []float64, workers int) (*SweepResult, er
 	return SweepModel(md, freqs, workers)
 }
 
-// sweepGroup is the number of neighbouring sweep points that share one anchor factorisation: the anchor is the
-// group's middle point, the others are solved iteratively (fem.Solver.SolveNear) from its factor and the group's
-// earlier solutions. Measured on the billet example (116k unknowns, 40 log points 1-10 kHz, CPU time on a shared
-// machine): groups of 1 (every point factorised, the factor's storage re-used) 61 s, groups of 5 102 s, of 10
-// 81 s. GMRES needs 5-12 iterations per point to the 1e-12 error target and each iteration costs about a tenth
-// of a factorisation (the factor's Solve refines iteratively), so iterating does not pay yet: every point is
-// factorised.
-const sweepGroup = 1
-
-// SweepModel solves md at every frequency in freqs on the model's mesh, re-using the sparse pattern, the
-// symbolic factorisation and the factor's storage, with the light analysis a sweep needs (no Maxwell-stress
-// cross-check). The frequencies are cut into groups of sweepGroup neighbours; a group factorises once, at its
-// middle, and solves its other points by preconditioned GMRES to within fem.NearTolerance (falling back to a
-// fresh factorisation where that does not converge quickly). The groups are spread over `workers` goroutines,
-// each with its own study.Sweeper on the shared read-only model (workers ≤ 0 means one per CPU); the groups do
-// not depend on the number of workers, so neither does the result. Points come back sorted by frequency.
+// SweepModel solves md at every frequency in freqs on the model's mesh (fem.Solver.Sweep: the sparse pattern and
+// the symbolic factorisation re-used, a few points factorised in place and the others taken from the reduced
+// basis of those solutions, each checked against its own residual), with the light analysis a sweep needs (no
+// Maxwell-stress cross-check) spread over `workers` goroutines (≤ 0 means one per CPU; the factorisations use
+// every CPU themselves). The numbers do not depend on workers. Points come back sorted by frequency.
 func SweepModel(md *study.Model, freqs []float64, workers int) (*SweepResult, error) {
-	return sweepModel(md, freqs, workers, sweepGroup)
-}
-
-// sweepModel is SweepModel with groups of `group` points (1: every point factorised directly).
-func sweepModel(md *study.Model, freqs []float64, workers, group int) (*SweepResult, error) {
+	if md == nil {
+		return nil, errors.New("sweep: no model")
+	}
 	if len(freqs) == 0 {
 		return nil, errors.New("sweep: no frequencies")
 	}
@@ -172,11 +159,10 @@ func sweepModel(md *study.Model, freqs []float64, workers, group int) (*SweepRes
 			return nil, fmt.Errorf("sweep: frequency %g Hz is not positive and finite", f)
 		}
 	}
-	groups := sweepGroups(freqs, group)
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
 	}
-	workers = min(workers, len(groups))
+	workers = min(workers, len(freqs))
 	res := &SweepResult{
 		Job: md.Job.Name, File: md.Job.File, MeshFrequency: md.Job.Frequency, Nodes: len(md.Mesh.Nodes),
 		Workers: workers, MeshTime: md.MeshTime, Points: make([]SweepPoint, len(freqs)),
@@ -185,99 +171,27 @@ func sweepModel(md *study.Model, freqs []float64, workers, group int) (*SweepRes
 		res.Parts = append(res.Parts, p.Name)
 	}
 	t0 := time.Now()
-	var (
-		mu   sync.Mutex
-		next int
-		errs = make([]error, workers)
-		wg   sync.WaitGroup
-	)
-	// The highest groups first: they have the finest skin depths and are the likeliest to fail, so a bad sweep
-	// stops early.
-	take := func() ([]int, bool) {
-		mu.Lock()
-		defer mu.Unlock()
-		if next >= len(groups) || slices.ContainsFunc(errs, func(e error) bool { return e != nil }) {
-			return nil, false
-		}
-		g := groups[len(groups)-1-next]
-		next++
-		return g, true
+	sw, err := md.NewSweeper()
+	if err != nil {
+		return nil, fmt.Errorf("sweep: %w", err)
 	}
-	fail := func(w int, err error) {
-		mu.Lock()
-		errs[w] = err
-		mu.Unlock()
-	}
-	for w := 0; w < workers; w++ {
-		wg.Go(func() {
-			sw, err := md.NewSweeper()
-			if err != nil {
-				fail(w, err)
-				return
-			}
-			for {
-				g, ok := take()
-				if !ok {
-					return
-				}
-				sw.ResetNear()
-				for _, i := range g {
-					t1 := time.Now()
-					s, err := sw.SolveNear(freqs[i])
-					if err != nil {
-						fail(w, err)
-						return
-					}
-					pt := pointOf(s)
-					pt.Elapsed = time.Since(t1)
-					res.Points[i] = pt // each index is written by one goroutine only
-				}
-			}
-		})
-	}
-	wg.Wait()
-	if err := errors.Join(errs...); err != nil {
+	// Each index is written by one call only.
+	err = sw.Sweep(freqs, workers, func(i int, s *study.Solution) { res.Points[i] = pointOf(s) })
+	if err != nil {
 		return nil, fmt.Errorf("sweep: %w", err)
 	}
 	res.Elapsed = time.Since(t0)
 	slices.SortStableFunc(res.Points, func(a, b SweepPoint) int { return cmpFloat(a.Frequency, b.Frequency) })
-	if len(res.Points) > 0 {
-		res.Unknowns = res.Points[0].Unknowns
-	}
+	res.Unknowns = res.Points[0].Unknowns
 	return res, nil
-}
-
-// sweepGroups cuts the indices of freqs, in increasing frequency, into runs of about `size` neighbours,
-// lowest run first; each run lists its middle point first, then the points above it upwards, then those below
-// it downwards (so each solve starts next to the previous ones).
-func sweepGroups(freqs []float64, size int) [][]int {
-	order := make([]int, len(freqs))
-	for i := range order {
-		order[i] = i
-	}
-	slices.SortStableFunc(order, func(a, b int) int { return cmpFloat(freqs[a], freqs[b]) })
-	ng := (len(order) + size - 1) / size
-	var groups [][]int
-	for k := range ng {
-		run := order[len(order)*k/ng : len(order)*(k+1)/ng]
-		mid := len(run) / 2
-		g := []int{run[mid]}
-		for i := mid + 1; i < len(run); i++ {
-			g = append(g, run[i])
-		}
-		for i := mid - 1; i >= 0; i-- {
-			g = append(g, run[i])
-		}
-		groups = append(groups, g)
-	}
-	return groups
 }
 
 // pointOf condenses a solution into a sweep point.
 func pointOf(s *study.Solution) SweepPoint {
 	r := s.Result
+	st := s.Field.Stats
 	pt := SweepPoint{Frequency: r.Frequency, Efficiency: r.Efficiency, BalanceError: r.BalanceError,
-		Unknowns: r.Unknowns, Iterations: s.Field.Stats.Iterations}
+		Unknowns: r.Unknowns, Basis: st.Basis, Indicator: st.Indicator, Elapsed: st.Assemble + st.Factor + st.Solve}
 	for _, c := range r.Coils {
 		pt.Coils = append(pt.Coils, CoilPoint{
 			Name: c.Name, Resistance: c.Resistance, Inductance: c.Inductance, Q: c.QualityFactor,

@@ -209,75 +209,46 @@ func TestSweepJobStranded(t *testing.T) {
 	}
 }
 
-// sweepGroups covers every index once, in runs of neighbours that start at their middle point.
-func TestSweepGroups(t *testing.T) {
-	for _, n := range []int{1, 2, 7, 10, 11, 40} {
-		for _, size := range []int{1, 3, 5, 10} {
-			f, err := Frequencies(1e3, 1e3*float64(n), n, LinearSpacing)
-			if err != nil {
-				t.Fatal(err)
-			}
-			// reverse, so that the groups must sort by frequency rather than by index
-			for i, j := 0, n-1; i < j; i, j = i+1, j-1 {
-				f[i], f[j] = f[j], f[i]
-			}
-			seen := make([]int, n)
-			prevTop := 0.0
-			for _, g := range sweepGroups(f, size) {
-				if len(g) == 0 || len(g) > size {
-					t.Fatalf("n %d size %d: group %v", n, size, g)
-				}
-				lo, hi := math.Inf(1), math.Inf(-1)
-				for _, i := range g {
-					seen[i]++
-					lo, hi = math.Min(lo, f[i]), math.Max(hi, f[i])
-				}
-				if lo <= prevTop || hi-lo > float64(len(g)-1)*1e3*(1+1e-12) {
-					t.Errorf("n %d size %d: group %v is not a run of neighbours above the last", n, size, g)
-				}
-				prevTop = hi
-				if mid := lo + float64(len(g)/2)*1e3; math.Abs(f[g[0]]-mid) > 1e-9 {
-					t.Errorf("n %d size %d: group %v starts at %g Hz, not its middle %g Hz", n, size, g, f[g[0]], mid)
-				}
-			}
-			for i, c := range seen {
-				if c != 1 {
-					t.Errorf("n %d size %d: point %d in %d groups", n, size, i, c)
-				}
-			}
-		}
-	}
-}
-
-// Iterative groups (an anchor factorisation and GMRES for its neighbours) give the direct sweep's numbers to
-// 1e-9, whatever the number of workers.
-func TestSweepIterativeGroups(t *testing.T) {
+// A dense sweep takes most points from the reduced basis; every one of them must still give a direct solve's R,
+// L, coil loss and part power to 1e-8.
+func TestSweepReducedBasisMatchesDirect(t *testing.T) {
 	md, _ := load(t, "testdata/ring-heater.toml", nil)
-	freqs, err := Frequencies(20e3, 30e3, 9, LogSpacing) // neighbours 5 % apart
+	freqs, err := Frequencies(10e3, 100e3, 30, LogSpacing)
 	if err != nil {
 		t.Fatal(err)
 	}
-	direct, err := sweepModel(md, freqs, 2, 1)
+	res, err := SweepModel(md, freqs, 2)
 	if err != nil {
 		t.Fatal(err)
 	}
-	its := 0
-	for _, workers := range []int{1, 2} {
-		grouped, err := sweepModel(md, freqs, workers, 5)
+	sw, err := md.NewSweeper()
+	if err != nil {
+		t.Fatal(err)
+	}
+	reduced := 0
+	for _, p := range res.Points {
+		if p.Basis > 0 {
+			reduced++
+		}
+		d, err := sw.SolveAt(p.Frequency)
 		if err != nil {
 			t.Fatal(err)
 		}
-		for i, p := range grouped.Points {
-			q := direct.Points[i]
-			its += p.Iterations
-			if rel(p.Coils[0].Resistance, q.Coils[0].Resistance) > 1e-9 || rel(p.Coils[0].Inductance, q.Coils[0].Inductance) > 1e-9 ||
-				rel(p.PartPower[0], q.PartPower[0]) > 1e-9 {
-				t.Errorf("%d workers, %g Hz (%d iterations): R %g L %g P %g, direct R %g L %g P %g", workers, p.Frequency, p.Iterations,
-					p.Coils[0].Resistance, p.Coils[0].Inductance, p.PartPower[0], q.Coils[0].Resistance, q.Coils[0].Inductance, q.PartPower[0])
+		c, q := d.Result.Coils[0], p.Coils[0]
+		for _, v := range []struct {
+			name      string
+			got, want float64
+		}{
+			{"R", q.Resistance, c.Resistance}, {"L", q.Inductance, c.Inductance}, {"coil loss", q.Loss, c.Loss},
+			{"part power", p.PartPower[0], d.Result.Parts[0].Power},
+		} {
+			if !(rel(v.got, v.want) <= 1e-8) {
+				t.Errorf("%g Hz (basis %d, indicator %.2g): %s %.10g, direct %.10g", p.Frequency, p.Basis, p.Indicator, v.name, v.got, v.want)
 			}
 		}
 	}
-	if its == 0 {
-		t.Error("no point was solved iteratively")
+	t.Logf("%d of %d points from the reduced basis", reduced, len(freqs))
+	if reduced < len(freqs)/2 {
+		t.Errorf("only %d of %d points came from the reduced basis", reduced, len(freqs))
 	}
 }

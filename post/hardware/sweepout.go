@@ -24,6 +24,7 @@ type SweepJSON struct {
 	Workers         int              `json:"workers"`
 	MeshSeconds     post.Num         `json:"mesh_s"`
 	SolveSeconds    post.Num         `json:"sweep_s"`
+	Factorised      int              `json:"factorised_points"`
 	Points          []SweepPointJSON `json:"points"`
 }
 
@@ -34,6 +35,10 @@ type SweepPointJSON struct {
 	PartPowerW   map[string]post.Num `json:"part_power_w"`
 	Efficiency   post.Num            `json:"efficiency"`
 	BalanceError post.Num            `json:"balance_error"`
+	// ReducedBasis is the size of the reduced basis the point was taken from, 0 where it was factorised;
+	// Indicator is then its accepted weighted residual.
+	ReducedBasis int      `json:"reduced_basis"`
+	Indicator    post.Num `json:"residual_indicator"`
 }
 
 // SweepCoilJSON is one coil at one frequency.
@@ -55,10 +60,12 @@ func (r *SweepResult) JSON() SweepJSON {
 	out := SweepJSON{
 		Job: r.Job, File: r.File, MeshFrequencyHz: post.Num(r.MeshFrequency), Nodes: r.Nodes, Unknowns: r.Unknowns,
 		Workers: r.Workers, MeshSeconds: post.Num(r.MeshTime.Seconds()), SolveSeconds: post.Num(r.Elapsed.Seconds()),
+		Factorised: r.Factorised(),
 	}
 	for _, p := range r.Points {
 		pj := SweepPointJSON{FrequencyHz: post.Num(p.Frequency), PartPowerW: map[string]post.Num{},
-			Efficiency: post.Num(p.Efficiency), BalanceError: post.Num(p.BalanceError)}
+			Efficiency: post.Num(p.Efficiency), BalanceError: post.Num(p.BalanceError), ReducedBasis: p.Basis,
+			Indicator: post.Num(p.Indicator)}
 		for _, c := range p.Coils {
 			pj.Coils = append(pj.Coils, SweepCoilJSON{
 				Name: c.Name, ResistanceOhm: post.Num(c.Resistance), InductanceH: post.Num(c.Inductance),
@@ -72,6 +79,17 @@ func (r *SweepResult) JSON() SweepJSON {
 		out.Points = append(out.Points, pj)
 	}
 	return out
+}
+
+// Factorised counts the points that were factorised (the others came from the reduced basis).
+func (r *SweepResult) Factorised() int {
+	n := 0
+	for _, p := range r.Points {
+		if p.Basis == 0 {
+			n++
+		}
+	}
+	return n
 }
 
 // WriteJSON writes the sweep as indented JSON.
