@@ -88,7 +88,9 @@ func NewAssembler(p *Problem) (*Assembler, error) {
 	if err := a.number(); err != nil {
 		return nil, err
 	}
-	tr := sparse.NewTriplet(a.n, len(m.Tris)*a.nloc*(a.nloc+1)/2)
+	// Room for every element's lower triangle and circuit column, every diagonal and some boundary terms, so that
+	// the triplet lists are not regrown (and copied) on the way.
+	tr := sparse.NewTriplet(a.n, len(m.Tris)*(a.nloc*(a.nloc+1)/2+a.nloc+1)+a.n+4096)
 	a.elemStart = make([]int, len(m.Tris)+1)
 	ps := &patternSink{tr: tr}
 	sc := newScratch(a.nloc)

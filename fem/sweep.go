@@ -5,6 +5,7 @@ import (
 	"math"
 	"math/cmplx"
 	"slices"
+	"sync"
 	"time"
 )
 
@@ -47,78 +48,122 @@ func (s *Solver) Sweep(freqs []float64, emit func(i int, sol *Solution) error) e
 	s.ResetNear()
 	ns := s.near
 	a := s.asm
-	for _, i := range bisectionOrder(freqs) {
-		f := freqs[i]
-		st := Stats{Assemble: s.asmTime, Unknowns: a.n}
-		s.asmTime = 0
-		t0 := time.Now()
-		if ns.m == nil {
-			ns.m, ns.b = a.System(f)
-		} else {
-			a.systemInto(f, ns.m, ns.b)
+	ops := a.newSweepOps()
+	order := bisectionOrder(freqs)
+	for len(order) > 0 {
+		batch := order[:min(sweepBatch, len(order))]
+		order = order[len(batch):]
+		// The batch's points are tried against the current basis side by side; the ones that fail are tried
+		// again, one by one, after each factorisation below has grown the basis, and factorised if they still fail.
+		tries := make([]reducedTry, len(batch))
+		for k := range tries {
+			tries[k].ind = math.Inf(1)
 		}
-		st.Assemble += time.Since(t0)
-		st.NonZeros = ns.m.Nnz()
 		if len(ns.basis) > 0 {
-			t0 = time.Now()
-			x, ind, res := s.reduced(f)
-			if ind <= SweepTolerance {
-				st.Solve, st.Basis, st.Indicator, st.Residual = time.Since(t0), len(ns.basis), ind, res
-				if err := emit(i, detached(a.solution(f, ns.m, ns.b, x, st))); err != nil {
+			var wg sync.WaitGroup
+			for k, i := range batch {
+				wg.Go(func() { tries[k] = s.tryReduced(freqs[i], ops) })
+			}
+			wg.Wait()
+		}
+		grown := false
+		for k, i := range batch {
+			f := freqs[i]
+			t := tries[k]
+			if grown && t.ind > SweepTolerance {
+				t = s.tryReduced(f, ops)
+			}
+			st := Stats{Assemble: s.asmTime, Unknowns: a.n, NonZeros: a.pat.Nnz()}
+			s.asmTime = 0
+			if t.x != nil && t.ind <= SweepTolerance {
+				st.Solve, st.Basis, st.Indicator, st.Residual = t.elapsed, t.basis, t.ind, t.res
+				if err := emit(i, detached(a.solution(f, nil, nil, t.x, st))); err != nil {
 					return err
 				}
 				continue
 			}
-		}
-		t0 = time.Now()
-		x, err := s.factorSolve(&ns.fac, ns.m, ns.b, &st, t0)
-		if err != nil {
-			return fmt.Errorf("at %g Hz: %w", f, err)
-		}
-		if ns.wt == nil {
-			ns.wt = make([]float64, a.n)
-			for j := range ns.wt {
-				ns.wt[j] = cmplx.Abs(ns.m.Val[ns.m.ColPtr[j]])
+			t0 := time.Now()
+			if ns.m == nil {
+				ns.m, ns.b = a.System(f)
+			} else {
+				a.systemInto(f, ns.m, ns.b)
 			}
-		}
-		s.enrich(x)
-		s.enrich(s.derivatives(2*math.Pi*f, x, sweepDerivatives)...)
-		if err := emit(i, detached(a.solution(f, ns.m, ns.b, x, st))); err != nil {
-			return err
+			st.Assemble += time.Since(t0)
+			t0 = time.Now()
+			x, err := s.factorSolve(&ns.fac, ns.m, ns.b, &st, t0)
+			if err != nil {
+				return fmt.Errorf("at %g Hz: %w", f, err)
+			}
+			if ns.wt == nil {
+				ns.wt = make([]float64, a.n)
+				for j := range ns.wt {
+					ns.wt[j] = cmplx.Abs(ns.m.Val[ns.m.ColPtr[j]])
+				}
+			}
+			s.enrich(x)
+			s.enrich(s.derivatives(2*math.Pi*f, x, sweepDerivatives, ops)...)
+			grown = true
+			if err := emit(i, detached(a.solution(f, ns.m, ns.b, x, st))); err != nil {
+				return err
+			}
 		}
 	}
 	return nil
 }
 
+// sweepBatch is the number of points a sweep tries against the reduced basis at once (in parallel). It is a
+// constant, not the number of CPUs, so that which points are factorised, and so the numbers, do not depend on
+// the machine.
+const sweepBatch = 4
+
+// reducedTry is one point's reduced-basis solution (x nil when there was no basis), its indicator and scaled
+// residual, the basis size and the time it took.
+type reducedTry struct {
+	x        []complex128
+	ind, res float64
+	basis    int
+	elapsed  time.Duration
+}
+
+func (s *Solver) tryReduced(f float64, ops *sweepOps) reducedTry {
+	if len(s.near.basis) == 0 {
+		return reducedTry{ind: math.Inf(1)}
+	}
+	t0 := time.Now()
+	x, ind, res := s.reduced(f, ops)
+	return reducedTry{x: x, ind: ind, res: res, basis: len(s.near.basis), elapsed: time.Since(t0)}
+}
+
 // reduced returns the Galerkin solution at f in the current basis, its indicator (see SweepTolerance) and its
-// scaled residual ‖b − A x‖∞ / (‖A‖∞‖x‖∞ + ‖b‖∞), for the system assembled at f in s.near. A singular reduced
-// system gives an infinite indicator.
-func (s *Solver) reduced(f float64) (x []complex128, ind, res float64) {
-	ns := s.near
-	m, b := ns.m, ns.b
-	n := s.asm.n
+// scaled residual ‖b − A x‖∞ / (‖A‖∞‖x‖∞ + ‖b‖∞), with ‖A‖∞ bounded by the row sums of its parts. A singular
+// reduced system gives an infinite indicator.
+func (s *Solver) reduced(f float64, ops *sweepOps) (x []complex128, ind, res float64) {
+	a := s.asm
+	n := a.n
+	w := 2 * math.Pi * f
 	x = make([]complex128, n)
-	if !s.galerkinStart(x, 2*math.Pi*f) {
+	if !s.galerkinStart(x, w) {
 		return x, math.Inf(1), math.Inf(1)
 	}
 	r := make([]complex128, n)
-	m.MulVec(r, x)
+	d := make([]float64, n)
+	a.residualAt(w, x, r, d)
+	jw := complex(0, w)
+	ijw := 1 / jw
 	var rw, xw, nr, nx, nb float64
 	for j := range n {
-		d := cmplx.Abs(m.Val[m.ColPtr[j]]) // the diagonal leads each column
-		rj := b[j] - r[j]
-		xj := x[j]
-		rw += (real(rj)*real(rj) + imag(rj)*imag(rj)) / d
-		xw += d * (real(xj)*real(xj) + imag(xj)*imag(xj))
+		rj, xj := r[j], x[j]
+		rw += (real(rj)*real(rj) + imag(rj)*imag(rj)) / d[j]
+		xw += d[j] * (real(xj)*real(xj) + imag(xj)*imag(xj))
 		nr = max(nr, cmplx.Abs(rj))
 		nx = max(nx, cmplx.Abs(xj))
-		nb = max(nb, cmplx.Abs(b[j]))
+		nb = max(nb, cmplx.Abs(a.r0[j]+jw*a.r1[j]+ijw*a.r2[j]))
 	}
 	ind = math.Sqrt(rw / xw)
 	if math.IsNaN(ind) || xw == 0 {
 		ind = math.Inf(1)
 	}
-	if den := normInf(m)*nx + nb; den > 0 {
+	if den := ops.normBound(w)*nx + nb; den > 0 {
 		res = nr / den
 	}
 	return x, ind, res
@@ -171,7 +216,7 @@ const sweepDerivatives = 2
 // factorised there (s.near.fac), from differentiating A(ω) x(ω) = b(ω) k times:
 // A x^(k) = b^(k) − Σ_{i=1..k} C(k,i) A^(i) x^(k−i), where only the jωM and Q/(jω) parts of A (and the jω r1
 // and r2/(jω) parts of b) depend on ω.
-func (s *Solver) derivatives(w float64, x []complex128, order int) [][]complex128 {
+func (s *Solver) derivatives(w float64, x []complex128, order int, ops *sweepOps) [][]complex128 {
 	if order <= 0 {
 		return nil
 	}
@@ -201,7 +246,7 @@ func (s *Solver) derivatives(w float64, x []complex128, order int) [][]complex12
 		}
 		return c
 	}
-	kx, mx, qx := make([]complex128, n), make([]complex128, n), make([]complex128, n)
+	mx, qx := make([]complex128, n), make([]complex128, n)
 	xs := [][]complex128{x}
 	for k := 1; k <= order; k++ {
 		rhs := make([]complex128, n)
@@ -210,7 +255,7 @@ func (s *Solver) derivatives(w float64, x []complex128, order int) [][]complex12
 			rhs[j] = cm*a.r1[j] + cq*a.r2[j]
 		}
 		for i := 1; i <= k; i++ {
-			a.mulKMQ(kx, mx, qx, xs[k-i])
+			ops.mulMQ(mx, qx, xs[k-i])
 			c := complex(binom(k, i), 0)
 			cm, cq := c*dM(i), c*dQ(i)
 			for j := range rhs {
@@ -222,4 +267,103 @@ func (s *Solver) derivatives(w float64, x []complex128, order int) [][]complex12
 		xs = append(xs, d)
 	}
 	return xs[1:]
+}
+
+// sweepOps holds what a sweep re-uses at every point: the positions of the frequency-dependent entries (where
+// M or Q is non-zero: the conductors and the circuit rows, a fraction of the pattern) and bounds of the row sums
+// of |K|, |M| and |Q| for the scaled residual's ‖A(ω)‖∞.
+type sweepOps struct {
+	col, row []int32 // entry positions (column, row) of the M/Q entries, lower triangle
+	mv, qv   []float64
+	rowK     []float64
+	rowM     []float64
+	rowQ     []float64
+}
+
+func (a *Assembler) newSweepOps() *sweepOps {
+	p := a.pat
+	o := &sweepOps{rowK: make([]float64, a.n), rowM: make([]float64, a.n), rowQ: make([]float64, a.n)}
+	nz := 0
+	for q := range a.mv {
+		if a.mv[q] != 0 || a.qv[q] != 0 {
+			nz++
+		}
+	}
+	o.col, o.row = make([]int32, 0, nz), make([]int32, 0, nz)
+	o.mv, o.qv = make([]float64, 0, nz), make([]float64, 0, nz)
+	for j := 0; j < p.N; j++ {
+		for q := p.ColPtr[j]; q < p.ColPtr[j+1]; q++ {
+			i := p.RowIdx[q]
+			k, m, qq := math.Abs(a.kv[q]), math.Abs(a.mv[q]), math.Abs(a.qv[q])
+			o.rowK[i] += k
+			o.rowM[i] += m
+			o.rowQ[i] += qq
+			if int(i) != j {
+				o.rowK[j] += k
+				o.rowM[j] += m
+				o.rowQ[j] += qq
+			}
+			if a.mv[q] != 0 || a.qv[q] != 0 {
+				o.col = append(o.col, int32(j))
+				o.row = append(o.row, i)
+				o.mv = append(o.mv, a.mv[q])
+				o.qv = append(o.qv, a.qv[q])
+			}
+		}
+	}
+	return o
+}
+
+// mulMQ sets mx = M x and qx = Q x.
+func (o *sweepOps) mulMQ(mx, qx, x []complex128) {
+	clear(mx)
+	clear(qx)
+	for p, j := range o.col {
+		i := o.row[p]
+		m, q := complex(o.mv[p], 0), complex(o.qv[p], 0)
+		mx[i] += m * x[j]
+		qx[i] += q * x[j]
+		if i != j {
+			mx[j] += m * x[i]
+			qx[j] += q * x[i]
+		}
+	}
+}
+
+// normBound bounds ‖A(ω)‖∞ at angular frequency w by the row sums of its parts.
+func (o *sweepOps) normBound(w float64) float64 {
+	var mx float64
+	for i, k := range o.rowK {
+		mx = max(mx, k+w*o.rowM[i]+o.rowQ[i]/w)
+	}
+	return mx
+}
+
+// residualAt sets r = b(ω) − A(ω) x at angular frequency w straight from the assembled parts (no matrix is
+// formed), and d to the diagonal's moduli |A_jj(ω)|.
+func (a *Assembler) residualAt(w float64, x, r []complex128, d []float64) {
+	p := a.pat
+	jw := complex(0, w)
+	ijw := 1 / jw
+	for i := range r {
+		r[i] = a.r0[i] + jw*a.r1[i] + ijw*a.r2[i]
+	}
+	for j := 0; j < p.N; j++ {
+		xj := x[j]
+		var sj complex128
+		lo, hi := p.ColPtr[j], p.ColPtr[j+1]
+		rows := p.RowIdx[lo:hi]
+		kv, mv, qv := a.kv[lo:hi], a.mv[lo:hi], a.qv[lo:hi]
+		kv, mv, qv = kv[:len(rows)], mv[:len(rows)], qv[:len(rows)]
+		for q, i := range rows {
+			v := complex(kv[q], w*mv[q]-qv[q]/w)
+			r[i] -= v * xj
+			if int(i) != j {
+				sj += v * x[i]
+			} else {
+				d[j] = cmplx.Abs(v)
+			}
+		}
+		r[j] -= sj
+	}
 }

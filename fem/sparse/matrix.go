@@ -170,10 +170,19 @@ func (t *Triplet) Compile() (*Matrix, []int) {
 		next[c]++
 	}
 	byRow = nil
-	a := &Matrix{N: n, ColPtr: make([]int, n+1)}
+	// Count the distinct entries first so that RowIdx and Val are allocated once at their final size.
+	distinct := 0
+	lr, lc := int32(-1), int32(-1)
+	for _, k := range byCol {
+		if r, c := t.row[k], t.col[k]; r != lr || c != lc {
+			distinct++
+			lr, lc = r, c
+		}
+	}
+	a := &Matrix{N: n, ColPtr: make([]int, n+1), RowIdx: make([]int32, 0, distinct), Val: make([]complex128, 0, distinct)}
 	pos := make([]int, nz)
 	last := -1
-	lr, lc := int32(-1), int32(-1)
+	lr, lc = -1, -1
 	for _, k := range byCol {
 		r, c := t.row[k], t.col[k]
 		if r != lr || c != lc {
