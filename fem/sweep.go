@@ -99,6 +99,7 @@ func (s *Solver) Sweep(freqs []float64, emit func(i int, sol *Solution) error) e
 				for j := range ns.wt {
 					ns.wt[j] = cmplx.Abs(ns.m.Val[ns.m.ColPtr[j]])
 				}
+				ops.fillWeights(2*math.Pi*f, ns.wt)
 			}
 			s.enrich(x)
 			s.enrich(s.derivatives(2*math.Pi*f, x, sweepDerivatives, ops)...)
@@ -148,6 +149,7 @@ func (s *Solver) reduced(f float64, ops *sweepOps) (x []complex128, ind, res flo
 	r := make([]complex128, n)
 	d := make([]float64, n)
 	a.residualAt(w, x, r, d)
+	ops.fillWeights(w, d)
 	jw := complex(0, w)
 	ijw := 1 / jw
 	var rw, xw, nr, nx, nb float64
@@ -326,6 +328,20 @@ func (o *sweepOps) mulMQ(mx, qx, x []complex128) {
 		if i != j {
 			mx[j] += m * x[i]
 			qx[j] += q * x[i]
+		}
+	}
+}
+
+// fillWeights replaces the zero entries of d (diagonal moduli at angular frequency w) by their row's sum bound,
+// so that every unknown weighs in: a voltage-driven coil of solid turns has a structurally zero diagonal in its
+// current's row.
+func (o *sweepOps) fillWeights(w float64, d []float64) {
+	for j, v := range d {
+		if v == 0 {
+			d[j] = o.rowK[j] + w*o.rowM[j] + o.rowQ[j]/w
+		}
+		if d[j] == 0 {
+			d[j] = 1
 		}
 	}
 }

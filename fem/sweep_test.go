@@ -9,9 +9,19 @@ import (
 )
 
 // Sweep must give every point a direct solve's answer (the coil impedance to 1e-8, the field to 1e-7 of its
-// peak) while factorising far fewer points than it returns, on two decades of frequency given out of order.
+// peak) while factorising far fewer points than it returns, on two decades of frequency given out of order, for
+// a current-driven and a voltage-driven coil (whose current row has no diagonal entry).
 func TestSweepMatchesDirect(t *testing.T) {
-	p := benchProblem(6000, true)
+	for name, drive := range map[string]DriveKind{"current": CurrentDrive, "voltage": VoltageDrive} {
+		t.Run(name, func(t *testing.T) {
+			p := benchProblem(6000, true)
+			p.Coils[0].Drive = drive
+			testSweepMatchesDirect(t, p)
+		})
+	}
+}
+
+func testSweepMatchesDirect(t *testing.T, p *Problem) {
 	sw, err := NewSolver(p)
 	if err != nil {
 		t.Fatal(err)
