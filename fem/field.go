@@ -41,8 +41,18 @@ func (s *Solution) eachPointIn(keep func(ri int) bool, fn func(QuadPoint)) {
 	m := s.Mesh
 	nl := s.Order.NumNodes()
 	nd := make([]int, nl)
-	sh, dr, dz := make([]float64, nl), make([]float64, nl), make([]float64, nl)
+	dr, dz := make([]float64, nl), make([]float64, nl)
 	w := 2 * math.Pi * s.Frequency
+	// The shape values at a rule's points are the same in every triangle.
+	shapes := func(q *QuadRule) [][]float64 {
+		tab := make([][]float64, len(q.L))
+		for g, l := range q.L {
+			tab[g] = make([]float64, nl)
+			s.Order.Shape(l, tab[g])
+		}
+		return tab
+	}
+	shInterior, shAxis := shapes(&s.rules.Interior), shapes(&s.rules.Axis)
 	for t, tri := range m.Tris {
 		if keep != nil && !keep(s.elemRg[t]) {
 			continue
@@ -59,9 +69,9 @@ func (s *Solution) eachPointIn(keep func(ri int) bool, fn func(QuadPoint)) {
 				nd[3+k] = int(v)
 			}
 		}
-		q := &s.rules.Interior
+		q, shTab := &s.rules.Interior, shInterior
 		if axis {
-			q = &s.rules.Axis
+			q, shTab = &s.rules.Axis, shAxis
 		}
 		area, gl := triGeom(p)
 		ri := s.elemRg[t]
@@ -71,7 +81,7 @@ func (s *Solution) eachPointIn(keep func(ri int) bool, fn func(QuadPoint)) {
 			mur = 1
 		}
 		for g, l := range q.L {
-			s.Order.Shape(l, sh)
+			sh := shTab[g]
 			s.Order.ShapeGrad(l, gl, dr, dz)
 			qp := QuadPoint{Elem: t, Tag: m.Tags[t], Region: ri, Sigma: reg.Sigma, MuR: mur}
 			qp.R = l[0]*p[0][0] + l[1]*p[1][0] + l[2]*p[2][0]
@@ -85,7 +95,7 @@ func (s *Solution) eachPointIn(keep func(ri int) bool, fn func(QuadPoint)) {
 				dAz += a * complex(dz[i], 0)
 			}
 			qp.Br = -dAz
-			qp.Bz = dAr + qp.A/complex(qp.R, 0)
+			qp.Bz = dAr + complex(real(qp.A)/qp.R, imag(qp.A)/qp.R) // A/r, as complex division by a real gives it
 			qp.J = s.currentDensity(t, ri, qp.R, qp.A, w)
 			fn(qp)
 		}
