@@ -169,6 +169,17 @@ func Lines(spec LineSpec) (*plot.Plot, error) {
 			p.Legend.Add(k.label, sc)
 		}
 	}
+	// A little room above and below the data on a linear y axis, so that no point sits on the frame, and the
+	// legend in the top corner the first series leaves free (the left one when it rises to the right).
+	if !spec.LogY && p.Y.Max > p.Y.Min {
+		pad := 0.05 * (p.Y.Max - p.Y.Min)
+		p.Y.Min, p.Y.Max = p.Y.Min-pad, p.Y.Max+pad
+	}
+	if len(spec.Series) > 0 {
+		if y := spec.Series[0].Y; len(y) > 1 && y[len(y)-1] > y[0] {
+			p.Legend.Left = true
+		}
+	}
 	return p, nil
 }
 
