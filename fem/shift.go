@@ -188,11 +188,15 @@ func (ns *nearState) dot(u, v []complex128) complex128 {
 	if ns.wt == nil {
 		return dotc(u, v)
 	}
-	v = v[:len(u)]
-	wt := ns.wt[:len(u)]
+	return wdotc(ns.wt, u, v)
+}
+
+// wdotc is the weighted Hermitian inner product Σ wt_i conj(a_i) b_i.
+func wdotc(wt []float64, a, b []complex128) complex128 {
+	b, wt = b[:len(a)], wt[:len(a)]
 	var re, im float64
-	for i, x := range u {
-		y := v[i]
+	for i, x := range a {
+		y := b[i]
 		re += wt[i] * (real(x)*real(y) + imag(x)*imag(y))
 		im += wt[i] * (real(x)*imag(y) - imag(x)*real(y))
 	}
@@ -248,15 +252,7 @@ func (s *Solver) iterate(f float64, m *sparse.Matrix, b []complex128) (x []compl
 	for j := range n {
 		wt[j] = cmplx.Abs(m.Val[m.ColPtr[j]]) // the diagonal leads each column
 	}
-	wdot := func(a, b []complex128) complex128 {
-		var re, im float64
-		for i, x := range a {
-			y := b[i]
-			re += wt[i] * (real(x)*real(y) + imag(x)*imag(y))
-			im += wt[i] * (real(x)*imag(y) - imag(x)*real(y))
-		}
-		return complex(re, im)
-	}
+	wdot := func(a, b []complex128) complex128 { return wdotc(wt, a, b) }
 	wnorm := func(a []complex128) float64 { return math.Sqrt(real(wdot(a, a))) }
 	// precResidual sets pr = A₀⁻¹(b − m x) and returns ‖pr‖ / ‖x‖ in the weighted norm.
 	precResidual := func() (float64, bool) {

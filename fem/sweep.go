@@ -1,6 +1,7 @@
 package fem
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"math/cmplx"
@@ -178,7 +179,7 @@ func bisectionOrder(freqs []float64) []int {
 	for i := range idx {
 		idx[i] = i
 	}
-	slices.SortStableFunc(idx, func(a, b int) int { return cmpFreq(freqs[a], freqs[b]) })
+	slices.SortStableFunc(idx, func(a, b int) int { return cmp.Compare(freqs[a], freqs[b]) })
 	if len(idx) <= 2 {
 		return idx
 	}
@@ -196,16 +197,6 @@ func bisectionOrder(freqs []float64) []int {
 		queue = append(queue, span{sp.lo, mid}, span{mid, sp.hi})
 	}
 	return out
-}
-
-func cmpFreq(a, b float64) int {
-	switch {
-	case a < b:
-		return -1
-	case a > b:
-		return 1
-	}
-	return 0
 }
 
 // sweepDerivatives is the number of frequency derivatives of each factorised solution that join the reduced

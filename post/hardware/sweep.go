@@ -7,6 +7,7 @@
 package hardware
 
 import (
+	"cmp"
 	"errors"
 	"fmt"
 	"math"
@@ -181,7 +182,7 @@ func SweepModel(md *study.Model, freqs []float64, workers int) (*SweepResult, er
 		return nil, fmt.Errorf("sweep: %w", err)
 	}
 	res.Elapsed = time.Since(t0)
-	slices.SortStableFunc(res.Points, func(a, b SweepPoint) int { return cmpFloat(a.Frequency, b.Frequency) })
+	slices.SortStableFunc(res.Points, func(a, b SweepPoint) int { return cmp.Compare(a.Frequency, b.Frequency) })
 	res.Unknowns = res.Points[0].Unknowns
 	return res, nil
 }
@@ -202,14 +203,4 @@ func pointOf(s *study.Solution) SweepPoint {
 		pt.PartPower = append(pt.PartPower, p.Power)
 	}
 	return pt
-}
-
-func cmpFloat(a, b float64) int {
-	switch {
-	case a < b:
-		return -1
-	case a > b:
-		return 1
-	}
-	return 0
 }

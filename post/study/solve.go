@@ -41,22 +41,7 @@ func (md *Model) Solve() (*Solution, error) {
 
 // analyze derives the quantities of a solved field and applies a power drive's scale.
 func (md *Model) analyze(sol *fem.Solution) (*Solution, error) {
-	res, err := post.Analyze(sol, post.Options{MeshTime: md.MeshTime})
-	if err != nil {
-		return nil, fmt.Errorf("analysing %s: %w", md.Job.File, err)
-	}
-	s := &Solution{Model: md, Field: sol, Result: res, Scale: 1}
-	if md.PowerDrive >= 0 {
-		c := md.Job.Coils[md.PowerDrive]
-		s.Result, s.Scale, err = res.ScaleToPartPower(c.Into, c.Value)
-		if err != nil {
-			return nil, fmt.Errorf("coil %q: %w", c.Name, err)
-		}
-	}
-	if err := s.check(); err != nil {
-		return nil, err
-	}
-	return s, nil
+	return md.analyzeWith(sol, post.Options{MeshTime: md.MeshTime})
 }
 
 // check refuses a result that holds a non-finite number where a design figure is expected.
