@@ -46,6 +46,8 @@ type nearState struct {
 	// wt, when set, weights the inner product the basis is orthonormalised in (Σ wt_i conj(u_i) v_i); nil means
 	// the plain Hermitian one
 	wt []float64
+	// ops are the reduced-basis helpers built from the current materials' values (dropped with them)
+	ops *sweepOps
 	// work space, reused across solves
 	m          *sparse.Matrix
 	b          []complex128
@@ -63,7 +65,7 @@ func detached(s *Solution) *Solution {
 // what came before; the factor's storage is kept for re-use.
 func (s *Solver) ResetNear() {
 	if ns := s.near; ns != nil {
-		*ns = nearState{fac: ns.fac, m: ns.m, b: ns.b, v: ns.v, kx: ns.kx, mx: ns.mx, qx: ns.qx}
+		*ns = nearState{fac: ns.fac, m: ns.m, b: ns.b, v: ns.v, kx: ns.kx, mx: ns.mx, qx: ns.qx, ops: ns.ops}
 	}
 }
 

@@ -48,8 +48,10 @@ func (s *Solver) Sweep(freqs []float64, emit func(i int, sol *Solution) error) e
 	}
 	s.ResetNear()
 	ns := s.near
-	a := s.asm
-	ops := a.newSweepOps()
+	if ns.ops == nil {
+		ns.ops = s.asm.newSweepOps()
+	}
+	ops := ns.ops
 	order := bisectionOrder(freqs)
 	for len(order) > 0 {
 		batch := order[:min(sweepBatch, len(order))]
@@ -74,43 +76,80 @@ func (s *Solver) Sweep(freqs []float64, emit func(i int, sol *Solution) error) e
 			if grown && t.ind > SweepTolerance {
 				t = s.tryReduced(f, ops)
 			}
-			st := Stats{Assemble: s.asmTime, Unknowns: a.n, NonZeros: a.pat.Nnz()}
-			s.asmTime = 0
-			if t.x != nil && t.ind <= SweepTolerance {
-				st.Solve, st.Basis, st.Indicator, st.Residual = t.elapsed, t.basis, t.ind, t.res
-				if err := emit(i, detached(a.solution(f, nil, nil, t.x, st))); err != nil {
-					return err
-				}
-				continue
-			}
-			t0 := time.Now()
-			if ns.m == nil {
-				ns.m, ns.b = a.System(f)
-			} else {
-				a.systemInto(f, ns.m, ns.b)
-			}
-			st.Assemble += time.Since(t0)
-			t0 = time.Now()
-			x, err := s.factorSolve(&ns.fac, ns.m, ns.b, &st, t0)
+			sol, factorised, err := s.settle(f, t, ops)
 			if err != nil {
-				return fmt.Errorf("at %g Hz: %w", f, err)
+				return err
 			}
-			if ns.wt == nil {
-				ns.wt = make([]float64, a.n)
-				for j := range ns.wt {
-					ns.wt[j] = cmplx.Abs(ns.m.Val[ns.m.ColPtr[j]])
-				}
-				ops.fillWeights(2*math.Pi*f, ns.wt)
-			}
-			s.enrich(x)
-			s.enrich(s.derivatives(2*math.Pi*f, x, sweepDerivatives, ops)...)
-			grown = true
-			if err := emit(i, detached(a.solution(f, ns.m, ns.b, x, st))); err != nil {
+			grown = grown || factorised
+			if err := emit(i, sol); err != nil {
 				return err
 			}
 		}
 	}
 	return nil
+}
+
+// SolveReduced solves at frequency f (Hz) like SolveAt, but takes the Galerkin solution in the reduced basis of
+// the solutions factorised by earlier SolveReduced calls when its residual passes SweepTolerance (as Sweep does),
+// and otherwise factorises at f and adds that solution and its frequency derivatives to the basis. Overrides
+// change the materials (and persist, as in SolveAt) and start a new basis. A search that returns near frequencies
+// it has solved before (a resonance search, say) then factorises only a few times. The solution does not keep
+// its system.
+func (s *Solver) SolveReduced(f float64, ov ...Override) (*Solution, error) {
+	if err := checkFrequency(f); err != nil {
+		return nil, err
+	}
+	if len(ov) > 0 {
+		t0 := time.Now()
+		s.near = nil
+		if err := s.asm.SetMaterials(ov...); err != nil {
+			return nil, err
+		}
+		s.asmTime += time.Since(t0)
+	}
+	if s.near == nil {
+		s.near = &nearState{}
+	}
+	if s.near.ops == nil {
+		s.near.ops = s.asm.newSweepOps()
+	}
+	sol, _, err := s.settle(f, s.tryReduced(f, s.near.ops), s.near.ops)
+	return sol, err
+}
+
+// settle returns the solution at f: the tried reduced-basis solution t when it passes SweepTolerance, else a
+// factorised one, whose solution and derivatives then join the basis (factorised true).
+func (s *Solver) settle(f float64, t reducedTry, ops *sweepOps) (sol *Solution, factorised bool, err error) {
+	ns := s.near
+	a := s.asm
+	st := Stats{Assemble: s.asmTime, Unknowns: a.n, NonZeros: a.pat.Nnz()}
+	s.asmTime = 0
+	if t.x != nil && t.ind <= SweepTolerance {
+		st.Solve, st.Basis, st.Indicator, st.Residual = t.elapsed, t.basis, t.ind, t.res
+		return detached(a.solution(f, nil, nil, t.x, st)), false, nil
+	}
+	t0 := time.Now()
+	if ns.m == nil {
+		ns.m, ns.b = a.System(f)
+	} else {
+		a.systemInto(f, ns.m, ns.b)
+	}
+	st.Assemble += time.Since(t0)
+	t0 = time.Now()
+	x, err := s.factorSolve(&ns.fac, ns.m, ns.b, &st, t0)
+	if err != nil {
+		return nil, false, fmt.Errorf("at %g Hz: %w", f, err)
+	}
+	if ns.wt == nil {
+		ns.wt = make([]float64, a.n)
+		for j := range ns.wt {
+			ns.wt[j] = cmplx.Abs(ns.m.Val[ns.m.ColPtr[j]])
+		}
+		ops.fillWeights(2*math.Pi*f, ns.wt)
+	}
+	s.enrich(x)
+	s.enrich(s.derivatives(2*math.Pi*f, x, sweepDerivatives, ops)...)
+	return detached(a.solution(f, ns.m, ns.b, x, st)), true, nil
 }
 
 // sweepBatch is the number of points a sweep tries against the reduced basis at once (in parallel). It is a

@@ -127,3 +127,52 @@ func TestBisectionOrder(t *testing.T) {
 		}
 	}
 }
+
+// SolveReduced answers a search's scattered calls as a direct solve would (Z to 1e-8), factorising only a few
+// of them, and a material override starts afresh under the new materials.
+func TestSolveReduced(t *testing.T) {
+	p := benchProblem(6000, true)
+	red, err := NewSolver(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	direct, err := NewSolver(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	check := func(f float64, ov ...Override) *Solution {
+		t.Helper()
+		s, err := red.SolveReduced(f, ov...)
+		if err != nil {
+			t.Fatal(err)
+		}
+		d, err := direct.SolveAt(f, ov...)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if e := cmplx.Abs(s.CoilZ[0]-d.CoilZ[0]) / cmplx.Abs(d.CoilZ[0]); !(e <= 1e-8) {
+			t.Errorf("%g Hz (basis %d): Z %v, direct %v (relative difference %.2g)", f, s.Stats.Basis, s.CoilZ[0], d.CoilZ[0], e)
+		}
+		return s
+	}
+	// The calls of a bracketing search and its refinement, in the order such a search makes them.
+	calls := []float64{10e3, 20e3, 15e3, 17.5e3, 16.2e3, 16.9e3, 16.55e3, 16.7e3, 16.62e3, 16.64e3, 16.63e3, 40e3, 30e3}
+	factorised := 0
+	for _, f := range calls {
+		if check(f).Stats.Basis == 0 {
+			factorised++
+		}
+	}
+	t.Logf("%d of %d calls factorised", factorised, len(calls))
+	if factorised > 5 {
+		t.Errorf("%d of %d calls factorised; the basis should carry most", factorised, len(calls))
+	}
+	// New materials: the first call factorises under them.
+	if s := check(16.63e3, Override{Tag: 1, Sigma: 2e6, MuR: 1}); s.Stats.Basis != 0 {
+		t.Errorf("the first solve after an override came from the old basis (size %d)", s.Stats.Basis)
+	}
+	check(17e3)
+	if _, err := red.SolveReduced(0); err == nil {
+		t.Error("a zero frequency must fail")
+	}
+}

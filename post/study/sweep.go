@@ -63,6 +63,17 @@ func (sw *Sweeper) Sweep(freqs []float64, workers int, emit func(i int, s *Solut
 	return errors.Join(errs...)
 }
 
+// SolveReduced solves at frequency f (Hz) by fem.Solver.SolveReduced (from the reduced basis of this sweeper's
+// earlier SolveReduced solutions when the point's residual allows, else factorised) with the given material
+// overrides (which persist), and derives the quantities a sweep needs (as Sweep), scaled to the job's drive level.
+func (sw *Sweeper) SolveReduced(f float64, ov ...fem.Override) (*Solution, error) {
+	sol, err := sw.s.SolveReduced(f, ov...)
+	if err != nil {
+		return nil, fmt.Errorf("solving %s at %g Hz: %w", sw.md.Job.File, f, err)
+	}
+	return sw.md.analyzeWith(sol, post.Options{MeshTime: sw.md.MeshTime, PowerOnly: true})
+}
+
 // analyzeWith is analyze with the given analysis options.
 func (md *Model) analyzeWith(sol *fem.Solution, opt post.Options) (*Solution, error) {
 	res, err := post.Analyze(sol, opt)
