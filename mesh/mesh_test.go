@@ -2,6 +2,7 @@ package mesh
 
 import (
 	"errors"
+	"maps"
 	"math"
 	"math/rand"
 	"reflect"
@@ -541,4 +542,86 @@ func FuzzTriangulate(f *testing.F) {
 			t.Fatalf("CheckSegments: %v\n%+v", err, g)
 		}
 	})
+}
+
+// The Hilbert index visits every cell of a small grid once, each step to a side neighbour.
+func TestHilbert(t *testing.T) {
+	const bits = 3
+	n := 1 << bits
+	at := make([][2]int, n*n)
+	seen := make([]bool, n*n)
+	for x := range n {
+		for y := range n {
+			d := hilbert(bits, uint32(x), uint32(y))
+			if d >= uint64(n*n) || seen[d] {
+				t.Fatalf("(%d, %d) -> %d: out of range or repeated", x, y, d)
+			}
+			seen[d] = true
+			at[d] = [2]int{x, y}
+		}
+	}
+	for d := 1; d < n*n; d++ {
+		dx, dy := at[d][0]-at[d-1][0], at[d][1]-at[d-1][1]
+		if dx*dx+dy*dy != 1 {
+			t.Fatalf("step %d: (%v) to (%v) is not to a side neighbour", d, at[d-1], at[d])
+		}
+	}
+}
+
+// SortLocal keeps the mesh (same triangles with the same tags and orientation, same boundary edges, still
+// valid) and makes consecutive triangles near each other.
+func TestSortLocal(t *testing.T) {
+	g := polygon(PSLG{}, 1, halfDisc(1, 64)...)
+	g = polygon(g, 2, square(0.1, -0.4, 0.8)...)
+	g.Regions = []RegionSeed{{Point{0.05, 0.9}, 10}, {Point{0.2, -0.3}, 20}}
+	m := mustMesh(t, g, Options{MaxArea: 1e-3})
+	canon := func(m *Mesh) map[[3]Point]int32 {
+		out := map[[3]Point]int32{}
+		for i, tr := range m.Tris {
+			p := [3]Point{m.Nodes[tr[0]], m.Nodes[tr[1]], m.Nodes[tr[2]]}
+			// rotate so that the smallest point leads (orientation kept)
+			for k := 0; k < 3; k++ {
+				if p[0].X < p[1].X || p[0].X == p[1].X && p[0].Y < p[1].Y {
+					if p[0].X < p[2].X || p[0].X == p[2].X && p[0].Y < p[2].Y {
+						break
+					}
+				}
+				p = [3]Point{p[1], p[2], p[0]}
+			}
+			out[p] = m.Tags[i]
+		}
+		return out
+	}
+	edges := func(m *Mesh) map[[2]Point]int32 {
+		out := map[[2]Point]int32{}
+		for _, e := range m.Edges {
+			a, b := m.Nodes[e.A], m.Nodes[e.B]
+			if b.X < a.X || b.X == a.X && b.Y < a.Y {
+				a, b = b, a
+			}
+			out[[2]Point{a, b}] = e.Tag
+		}
+		return out
+	}
+	before, beforeEdges := canon(m), edges(m)
+	jump := func(m *Mesh) float64 {
+		var s float64
+		for i := 1; i < len(m.Tris); i++ {
+			a, b := m.Nodes[m.Tris[i-1][0]], m.Nodes[m.Tris[i][0]]
+			s += math.Hypot(a.X-b.X, a.Y-b.Y)
+		}
+		return s
+	}
+	j0 := jump(m)
+	m.SortLocal()
+	if err := m.Check(); err != nil {
+		t.Fatal(err)
+	}
+	after, afterEdges := canon(m), edges(m)
+	if !maps.Equal(before, after) || !maps.Equal(beforeEdges, afterEdges) {
+		t.Fatal("SortLocal changed the triangles, their tags or the boundary edges")
+	}
+	if j1 := jump(m); !(j1 < j0/2) {
+		t.Errorf("path through consecutive triangles %g before, %g after: not local", j0, j1)
+	}
 }
