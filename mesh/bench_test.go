@@ -3,6 +3,7 @@ package mesh
 import (
 	"fmt"
 	"math"
+	"slices"
 	"testing"
 )
 
@@ -51,4 +52,24 @@ func BenchmarkLocate(b *testing.B) {
 			}
 		})
 	}
+}
+
+// BenchmarkSortLocal renumbers a graded mesh of about 100k triangles along the Hilbert curve (a fresh copy each
+// time, outside the timing).
+func BenchmarkSortLocal(b *testing.B) {
+	m0, err := Triangulate(polygon(PSLG{}, 1, square(0, 0, 1)...),
+		Options{Size: func(p Point) float64 { return 0.0005 + 0.02*math.Hypot(p.X, p.Y) }})
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.ReportAllocs()
+	for b.Loop() {
+		b.StopTimer()
+		m := *m0
+		m.Nodes, m.Tris, m.Tags = slices.Clone(m0.Nodes), slices.Clone(m0.Tris), slices.Clone(m0.Tags)
+		m.Edges = slices.Clone(m0.Edges)
+		b.StartTimer()
+		m.SortLocal()
+	}
+	b.ReportMetric(float64(len(m0.Tris)), "tris")
 }
