@@ -32,6 +32,19 @@ func NewSolver(p *Problem) (*Solver, error) {
 	return &Solver{asm: a, asmTime: time.Since(t0)}, nil
 }
 
+// Analysis returns the fill-reducing symbolic analysis of the solver's sparse pattern, nil before its first
+// factorisation. It is read-only and may be handed to other solvers of the same problem (see UseAnalysis).
+func (s *Solver) Analysis() *sparse.Symbolic { return s.sym }
+
+// UseAnalysis gives a solver that has not yet factorised the symbolic analysis of another solver of the same
+// problem (same mesh, regions and coils, hence the same sparse pattern; materials may differ), so that it skips
+// its own. A mismatched pattern is refused when the solver factorises.
+func (s *Solver) UseAnalysis(sym *sparse.Symbolic) {
+	if s.sym == nil {
+		s.sym = sym
+	}
+}
+
 // Solve solves p at p.Frequency.
 func Solve(p *Problem) (*Solution, error) {
 	s, err := NewSolver(p)

@@ -310,8 +310,8 @@ func TestLoadStates(t *testing.T) {
 
 func TestEvaluateErrors(t *testing.T) {
 	md, sol := load(t, "testdata/ring-heater.toml", nil)
-	bare := *md
-	bare.Job = md.Job.Copy()
+	bare := study.Model{Job: md.Job.Copy(), Layout: md.Layout, Mesh: md.Mesh, Problem: md.Problem, MeshTime: md.MeshTime,
+		PowerDrive: md.PowerDrive}
 	bare.Job.Tank, bare.Job.Cooling = nil, nil
 	if rep, err := Evaluate(&bare, sol); rep != nil || err != nil {
 		t.Errorf("a job without [tank] and [cooling] gives %v, %v; want nil, nil", rep, err)

@@ -4,9 +4,11 @@ package study
 
 import (
 	"fmt"
+	"sync"
 	"time"
 
 	"eddyrz/fem"
+	"eddyrz/fem/sparse"
 	"eddyrz/geometry"
 	"eddyrz/mesh"
 )
@@ -20,6 +22,30 @@ type Model struct {
 	MeshTime time.Duration // layout plus triangulation
 	// PowerDrive is the index of the coil driven by a target part power (solved at 1 A and scaled), or −1.
 	PowerDrive int
+
+	// analysis is the symbolic factorisation of the problem's sparse pattern, computed by the first of the
+	// model's solvers to factorise and handed to those made after it (the only state a Model gains after Build).
+	mu       sync.Mutex
+	analysis *sparse.Symbolic
+}
+
+// sharedAnalysis returns the symbolic analysis one of the model's solvers has computed, nil before that.
+func (md *Model) sharedAnalysis() *sparse.Symbolic {
+	md.mu.Lock()
+	defer md.mu.Unlock()
+	return md.analysis
+}
+
+// keepAnalysis offers a solver's symbolic analysis for the model's later solvers.
+func (md *Model) keepAnalysis(sym *sparse.Symbolic) {
+	if sym == nil {
+		return
+	}
+	md.mu.Lock()
+	defer md.mu.Unlock()
+	if md.analysis == nil {
+		md.analysis = sym
+	}
 }
 
 // Build lays out, meshes and sets up the field problem of job. It does not solve.

@@ -30,13 +30,14 @@ func Solve(job *geometry.Job) (*Solution, error) {
 	return md.Solve()
 }
 
-// Solve solves the model's field problem and derives its quantities.
+// Solve solves the model's field problem at the job's frequency and derives its quantities. Its symbolic
+// analysis is kept for the model's later solvers (a tank study's, say).
 func (md *Model) Solve() (*Solution, error) {
-	sol, err := fem.Solve(md.Problem)
+	sw, err := md.NewSweeper()
 	if err != nil {
-		return nil, fmt.Errorf("solving %s: %w", md.Job.File, err)
+		return nil, err
 	}
-	return md.analyze(sol)
+	return sw.SolveAt(md.Problem.Frequency)
 }
 
 // analyze derives the quantities of a solved field and applies a power drive's scale.

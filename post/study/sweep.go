@@ -57,6 +57,7 @@ func (sw *Sweeper) Sweep(freqs []float64, workers int, emit func(i int, s *Solut
 	})
 	close(todo)
 	wg.Wait()
+	sw.md.keepAnalysis(sw.s.Analysis())
 	if err != nil && !errors.Is(err, stopped) {
 		return fmt.Errorf("sweeping %s: %w", sw.md.Job.File, err)
 	}
@@ -68,6 +69,7 @@ func (sw *Sweeper) Sweep(freqs []float64, workers int, emit func(i int, s *Solut
 // overrides (which persist), and derives the quantities a sweep needs (as Sweep), scaled to the job's drive level.
 func (sw *Sweeper) SolveReduced(f float64, ov ...fem.Override) (*Solution, error) {
 	sol, err := sw.s.SolveReduced(f, ov...)
+	sw.md.keepAnalysis(sw.s.Analysis())
 	if err != nil {
 		return nil, fmt.Errorf("solving %s at %g Hz: %w", sw.md.Job.File, f, err)
 	}

@@ -21,6 +21,7 @@ func (md *Model) NewSweeper() (*Sweeper, error) {
 	if err != nil {
 		return nil, fmt.Errorf("setting up %s: %w", md.Job.File, err)
 	}
+	s.UseAnalysis(md.sharedAnalysis())
 	return &Sweeper{md: md, s: s}, nil
 }
 
@@ -28,6 +29,7 @@ func (md *Model) NewSweeper() (*Sweeper, error) {
 // derives the quantities, scaled to the job's drive level.
 func (sw *Sweeper) SolveAt(f float64, ov ...fem.Override) (*Solution, error) {
 	sol, err := sw.s.SolveAt(f, ov...)
+	sw.md.keepAnalysis(sw.s.Analysis())
 	if err != nil {
 		return nil, fmt.Errorf("solving %s at %g Hz: %w", sw.md.Job.File, f, err)
 	}
