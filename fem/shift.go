@@ -48,6 +48,9 @@ type nearState struct {
 	wt []float64
 	// ops are the reduced-basis helpers built from the current materials' values (dropped with them)
 	ops *sweepOps
+	// reducedMode is set while the state serves Sweep/SolveReduced (a weighted basis of factorised solutions and
+	// their derivatives) rather than SolveNear (anchor, GMRES); switching from one to the other starts afresh
+	reducedMode bool
 	// work space, reused across solves
 	m          *sparse.Matrix
 	b          []complex128
@@ -89,6 +92,9 @@ func (s *Solver) SolveNear(f float64) (*Solution, error) {
 	}
 	if s.near == nil {
 		s.near = &nearState{}
+	}
+	if s.near.reducedMode {
+		s.ResetNear()
 	}
 	ns := s.near
 	a := s.asm

@@ -51,6 +51,7 @@ func (s *Solver) Sweep(freqs []float64, emit func(i int, sol *Solution) error) e
 	}
 	s.ResetNear()
 	ns := s.near
+	ns.reducedMode = true
 	if ns.ops == nil {
 		ns.ops = s.asm.newSweepOps()
 	}
@@ -112,6 +113,10 @@ func (s *Solver) SolveReduced(f float64, ov ...Override) (*Solution, error) {
 	}
 	if s.near == nil {
 		s.near = &nearState{}
+	}
+	if !s.near.reducedMode {
+		s.ResetNear() // a SolveNear basis is orthonormal in another inner product
+		s.near.reducedMode = true
 	}
 	if s.near.ops == nil {
 		s.near.ops = s.asm.newSweepOps()

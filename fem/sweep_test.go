@@ -176,3 +176,38 @@ func TestSolveReduced(t *testing.T) {
 		t.Error("a zero frequency must fail")
 	}
 }
+
+// SolveNear and SolveReduced keep different bases on the same solver: switching between them starts afresh and
+// both still give the direct answer.
+func TestSolveReducedAfterSolveNear(t *testing.T) {
+	p := benchProblem(3000, true)
+	s, err := NewSolver(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	direct, err := NewSolver(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		f       float64
+		reduced bool
+	}{{10e3, false}, {10.5e3, false}, {10.2e3, true}, {10.4e3, true}, {10.3e3, false}, {10.1e3, true}} {
+		var sol *Solution
+		if c.reduced {
+			sol, err = s.SolveReduced(c.f)
+		} else {
+			sol, err = s.SolveNear(c.f)
+		}
+		if err != nil {
+			t.Fatal(err)
+		}
+		d, err := direct.SolveAt(c.f)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if e := cmplx.Abs(sol.CoilZ[0]-d.CoilZ[0]) / cmplx.Abs(d.CoilZ[0]); !(e <= 1e-8) {
+			t.Errorf("%g Hz (reduced %v): Z differs from the direct solve by %.2g", c.f, c.reduced, e)
+		}
+	}
+}
