@@ -1,6 +1,11 @@
 package sparse
 
-import "math"
+import (
+	"math"
+	"runtime"
+	"sync"
+	"sync/atomic"
+)
 
 // The triangular substitutions stream L once forward and once backward, so they are bound by memory and by the
 // multiply-adds per loaded entry. Both work on one supernode at a time, holding its pivots and its rows below in
@@ -97,39 +102,88 @@ func dot4(L []complex128, o [4]int, g []complex128) [4]complex128 {
 	return r
 }
 
-// solveOnce sets x = A⁻¹ b by permutation, forward substitution, diagonal scaling and back substitution. x and b
-// may alias.
+// parallelSolveMin is the order below which the substitutions run their tasks one after another (the same
+// arithmetic, without the goroutines).
+const parallelSolveMin = 50000
+
+// solveOnce sets x = A⁻¹ b by permutation, forward substitution with the diagonal scaling, and back
+// substitution. x and b may alias. The independent subtrees of the factorisation (the Symbolic's tasks) are substituted side by side,
+// each collecting its updates of the top part in its own vector, added in task order before the top part's own
+// substitution, so the result does not depend on the number of goroutines.
 func (f *Factor) solveOnce(x, b []complex128) {
 	s := f.s
 	y := make([]complex128, s.n)
 	for k, old := range s.perm {
 		y[k] = b[old]
 	}
-	w := make([]complex128, s.stats.MaxFront)
 	ns := len(s.first) - 1
-	for sn := 0; sn < ns; sn++ {
-		f.forward(sn, y, w)
+	accs := make([][]complex128, len(s.tasks))
+	s.eachTask(func(t int, w []complex128) {
+		acc := make([]complex128, len(s.topPiv))
+		for sn := int(s.tasks[t][0]); sn <= int(s.tasks[t][1]); sn++ {
+			f.forward(sn, y, w, acc)
+		}
+		accs[t] = acc
+	})
+	for _, acc := range accs {
+		for i, p := range s.topPiv {
+			y[p] += acc[i]
+		}
 	}
+	w := make([]complex128, s.stats.MaxFront)
 	for sn := 0; sn < ns; sn++ {
-		fc := int(s.first[sn])
-		k := int(s.first[sn+1]) - fc
-		m := s.rowPtr[sn+1] - s.rowPtr[sn]
-		L := s.block(f.lx, sn)
-		for j := 0; j < k; j++ {
-			y[fc+j] /= L[j*m+j]
+		if s.taskOf[sn] < 0 {
+			f.forward(sn, y, w, nil)
 		}
 	}
 	for sn := ns - 1; sn >= 0; sn-- {
-		f.backward(sn, y, w)
+		if s.taskOf[sn] < 0 {
+			f.backward(sn, y, w)
+		}
 	}
+	s.eachTask(func(t int, w []complex128) {
+		for sn := int(s.tasks[t][1]); sn >= int(s.tasks[t][0]); sn-- {
+			f.backward(sn, y, w)
+		}
+	})
 	for k, old := range s.perm {
 		x[old] = y[k]
 	}
 }
 
+// eachTask calls fn for every task, over up to GOMAXPROCS goroutines for a large system, each with its own work
+// vector of the largest front's size.
+func (s *Symbolic) eachTask(fn func(t int, w []complex128)) {
+	nt := len(s.tasks)
+	procs := min(runtime.GOMAXPROCS(0), nt)
+	if s.n < parallelSolveMin || procs < 2 {
+		w := make([]complex128, s.stats.MaxFront)
+		for t := range nt {
+			fn(t, w)
+		}
+		return
+	}
+	var next atomic.Int32
+	var wg sync.WaitGroup
+	for range procs {
+		wg.Go(func() {
+			w := make([]complex128, s.stats.MaxFront)
+			for {
+				t := int(next.Add(1)) - 1
+				if t >= nt {
+					return
+				}
+				fn(t, w)
+			}
+		})
+	}
+	wg.Wait()
+}
+
 // forward applies supernode sn's columns of the unit lower factor to y (in pivot order), with w (at least the
-// front size) as work space: its pivots are solved and the rows below them updated.
-func (f *Factor) forward(sn int, y, w []complex128) {
+// front size) as work space: its pivots are solved (and left divided by their diagonal entries) and the rows
+// below them updated, those of the top part into acc (indexed by topIdx) when acc is not nil.
+func (f *Factor) forward(sn int, y, w, acc []complex128) {
 	s := f.s
 	fc := int(s.first[sn])
 	k := int(s.first[sn+1]) - fc
@@ -149,8 +203,16 @@ func (f *Factor) forward(sn int, y, w []complex128) {
 		}
 		gemvSub(L, jb*m+je, m, w[jb:je], w[je:m])
 	}
-	copy(y[fc:fc+k], w[:k])
+	for j, v := range w[:k] { // the diagonal scaling D⁻¹, while the block is at hand
+		y[fc+j] = v / L[j*m+j]
+	}
 	for i, r := range rows[k:] {
+		if acc != nil {
+			if t := s.topIdx[r]; t >= 0 {
+				acc[t] += w[k+i]
+				continue
+			}
+		}
 		y[r] += w[k+i]
 	}
 }

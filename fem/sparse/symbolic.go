@@ -56,7 +56,11 @@ type Symbolic struct {
 	tasks             [][2]int32
 	taskOf            []int32
 	taskPeak, topPeak int64
-	spare             *workerPool // scratch kept between factorisations (internally locked)
+	// topPiv lists the pivots of the top part in order and topIdx maps a pivot to its place in topPiv (−1 inside
+	// a task): the substitutions keep each task's updates of the top part apart while the tasks run side by side.
+	topPiv []int32
+	topIdx []int32
+	spare  *workerPool // scratch kept between factorisations (internally locked)
 }
 
 // Stats returns the analysis statistics.
@@ -394,7 +398,19 @@ func Analyze(a *Matrix, opt Options) (*Symbolic, error) {
 		aPtr[s+1] = len(aq)
 	}
 
+	topIdx := make([]int32, n)
+	var topPiv []int32
+	for sn := 0; sn < ns; sn++ {
+		for p := first[sn]; p < first[sn+1]; p++ {
+			topIdx[p] = -1
+			if taskOf[sn] < 0 {
+				topIdx[p] = int32(len(topPiv))
+				topPiv = append(topPiv, p)
+			}
+		}
+	}
 	st := &Symbolic{
+		topPiv: topPiv, topIdx: topIdx,
 		n: n, colPtr: slices.Clone(a.ColPtr), rowIdx: slices.Clone(a.RowIdx[:a.ColPtr[n]]),
 		perm: perm, iperm: iperm, first: first, rowPtr: rowPtr, rows: rows, lOff: lOff, parent: spar, aPtr: aPtr, aq: aq, aOff: aOff,
 		maxWork: maxWork, tasks: tasks, taskOf: taskOf, taskPeak: taskPeak, topPeak: topPeak,
