@@ -2,6 +2,7 @@ package sparse
 
 import (
 	"errors"
+	"runtime"
 	"sync"
 	"testing"
 )
@@ -92,4 +93,49 @@ func TestRefactorInPlace(t *testing.T) {
 			}
 		}
 	}
+}
+
+// The substitutions give bitwise the same solution whether the factor's subtrees run side by side or one after
+// another (a system above parallelSolveMin, solved with GOMAXPROCS 2 and then 1), and it solves the system.
+// Not parallel: it changes GOMAXPROCS.
+func TestSolveSubtreesParallelBitwise(t *testing.T) {
+	a, xy, rhs := newAxi(gridSide(2*parallelSolveMin), 2).build()
+	if a.N < parallelSolveMin {
+		t.Fatalf("test system has %d unknowns, below %d", a.N, parallelSolveMin)
+	}
+	s, err := Analyze(a, Options{Coords: xy})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(s.tasks) < 2 {
+		t.Fatalf("only %d subtree tasks", len(s.tasks))
+	}
+	f, err := s.Factor(a)
+	if err != nil {
+		t.Fatal(err)
+	}
+	old := runtime.GOMAXPROCS(2)
+	defer runtime.GOMAXPROCS(old)
+	par := make([]complex128, a.N)
+	f.Apply(par, rhs)
+	runtime.GOMAXPROCS(1)
+	seq := make([]complex128, a.N)
+	f.Apply(seq, rhs)
+	for i := range par {
+		if par[i] != seq[i] {
+			t.Fatalf("x[%d]: side by side %v, one after another %v", i, par[i], seq[i])
+		}
+	}
+	r := make([]complex128, a.N)
+	if res := f.residual(r, par, rhs, normInfVec(rhs)); !(res < 1e-12) {
+		t.Errorf("scaled residual %.2g", res)
+	}
+}
+
+func normInfVec(v []complex128) float64 {
+	var m float64
+	for _, x := range v {
+		m = max(m, cabs(x))
+	}
+	return m
 }
