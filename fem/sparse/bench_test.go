@@ -202,15 +202,7 @@ func readBenchSystem(b *testing.B, pa, pb string) (*Matrix, []complex128) {
 func BenchmarkRefactorInPlace(b *testing.B) {
 	for _, sz := range benchSizes[:3] {
 		b.Run(sz.name, func(b *testing.B) {
-			a, xy, rhs := newAxi(gridSide(sz.n), 2).build()
-			s, err := Analyze(a, Options{Coords: xy})
-			if err != nil {
-				b.Fatal(err)
-			}
-			f, err := s.Factor(a)
-			if err != nil {
-				b.Fatal(err)
-			}
+			a, _, f, rhs := factoredAxi(b, sz.n)
 			x := make([]complex128, a.N)
 			b.ReportAllocs()
 			b.ResetTimer()
@@ -233,15 +225,7 @@ func BenchmarkRefactorInPlace(b *testing.B) {
 func BenchmarkApply(b *testing.B) {
 	for _, sz := range benchSizes[:3] {
 		b.Run(sz.name, func(b *testing.B) {
-			a, xy, rhs := newAxi(gridSide(sz.n), 2).build()
-			s, err := Analyze(a, Options{Coords: xy})
-			if err != nil {
-				b.Fatal(err)
-			}
-			f, err := s.Factor(a)
-			if err != nil {
-				b.Fatal(err)
-			}
+			a, s, f, rhs := factoredAxi(b, sz.n)
 			x := make([]complex128, a.N)
 			b.ReportAllocs()
 			b.ResetTimer()
@@ -253,4 +237,19 @@ func BenchmarkApply(b *testing.B) {
 			b.ReportMetric(2*stored*float64(b.N)/b.Elapsed().Seconds()/1e9, "G-entries/s")
 		})
 	}
+}
+
+// factoredAxi builds the axisymmetric test system of about n unknowns (two border rows), analyses and factors it.
+func factoredAxi(tb testing.TB, n int) (*Matrix, *Symbolic, *Factor, []complex128) {
+	tb.Helper()
+	a, xy, rhs := newAxi(gridSide(n), 2).build()
+	s, err := Analyze(a, Options{Coords: xy})
+	if err != nil {
+		tb.Fatal(err)
+	}
+	f, err := s.Factor(a)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return a, s, f, rhs
 }

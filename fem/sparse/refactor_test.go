@@ -99,20 +99,9 @@ func TestRefactorInPlace(t *testing.T) {
 // another (a system above parallelSolveMin, solved with GOMAXPROCS 2 and then 1), and it solves the system.
 // Not parallel: it changes GOMAXPROCS.
 func TestSolveSubtreesParallelBitwise(t *testing.T) {
-	a, xy, rhs := newAxi(gridSide(2*parallelSolveMin), 2).build()
-	if a.N < parallelSolveMin {
-		t.Fatalf("test system has %d unknowns, below %d", a.N, parallelSolveMin)
-	}
-	s, err := Analyze(a, Options{Coords: xy})
-	if err != nil {
-		t.Fatal(err)
-	}
-	if len(s.tasks) < 2 {
-		t.Fatalf("only %d subtree tasks", len(s.tasks))
-	}
-	f, err := s.Factor(a)
-	if err != nil {
-		t.Fatal(err)
+	a, s, f, rhs := factoredAxi(t, 2*parallelSolveMin)
+	if a.N < parallelSolveMin || len(s.tasks) < 2 {
+		t.Fatalf("test system has %d unknowns (want at least %d) and %d subtree tasks (want 2)", a.N, parallelSolveMin, len(s.tasks))
 	}
 	old := runtime.GOMAXPROCS(2)
 	defer runtime.GOMAXPROCS(old)
