@@ -107,9 +107,9 @@ func dot4(L []complex128, o [4]int, g []complex128) [4]complex128 {
 const parallelSolveMin = 50000
 
 // solveOnce sets x = A⁻¹ b by permutation, forward substitution with the diagonal scaling, and back
-// substitution. x and b may alias. The independent subtrees of the factorisation (the Symbolic's tasks) are substituted side by side,
-// each collecting its updates of the top part in its own vector, added in task order before the top part's own
-// substitution, so the result does not depend on the number of goroutines.
+// substitution. x and b may alias. The independent subtrees of the factorisation (the Symbolic's tasks) are
+// substituted side by side, each collecting its updates of the top part in its own vector, added in task order
+// before the top part's own substitution, so the result does not depend on the number of goroutines.
 func (f *Factor) solveOnce(x, b []complex128) {
 	s := f.s
 	y := make([]complex128, s.n)
