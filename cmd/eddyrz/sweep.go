@@ -30,14 +30,14 @@ func newSweepCmd(stdout io.Writer) *cobra.Command {
 	c := &cobra.Command{
 		Use:   "sweep JOB.toml",
 		Short: "Sweep the coil's impedance, power split and efficiency over frequency",
-		Long: `sweep meshes the job once, at the highest sweep frequency so that the mesh resolves the thinnest skin
-depth of the sweep, and solves it at every frequency, re-using the sparse pattern and its fill-reducing
-analysis. A few frequencies are factorised; every other point is the best combination of those solutions,
-accepted only when its own residual is below 1e-10 of the solution (weighted by the matrix diagonal; on the
-examples this matches a direct solve to better than 1e-8), and factorised too when it is not. For every frequency it reports each coil's resistance R,
-inductance L, quality factor Q = ωL/R, current and voltage (rms, at the job's drive: a power-driven coil is
-scaled to its target power at every frequency), terminal power, own loss, the power in each part and the
-electrical efficiency (parts / coil terminals).
+		Long: `sweep meshes the job once, at the highest sweep frequency so that the mesh resolves the thinnest skin depth of
+the sweep, and solves it at every frequency, re-using the sparse pattern and its fill-reducing analysis. A few
+frequencies are factorised; every other point is the best combination of those solutions, accepted only when
+its own residual is below 1e-10 of the solution (weighted by the matrix diagonal; in the tests this matches
+a direct solve to 1e-8), and factorised too when it is not. For every frequency it reports each
+coil's resistance R, inductance L, quality factor Q = ωL/R, current and voltage (rms, at the job's drive: a
+power-driven coil is scaled to its target power at every frequency), terminal power, own loss, the power in
+each part and the electrical efficiency (parts / coil terminals).
 
 Into --out it writes sweep.csv, sweep.json and the charts sweep-resistance, sweep-inductance, sweep-quality,
 sweep-power and sweep-efficiency (.png and .svg). Nothing is written when the sweep fails.
