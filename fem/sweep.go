@@ -196,18 +196,15 @@ func (s *Solver) reduced(f float64, ops *sweepOps) (x []complex128, ind, res flo
 	}
 	r := make([]complex128, n)
 	d := make([]float64, n)
-	a.residualAt(w, x, r, d)
+	nb := a.residualAt(w, x, r, d)
 	ops.fillWeights(w, d)
-	jw := complex(0, w)
-	ijw := 1 / jw
-	var rw, xw, nr, nx, nb float64
+	var rw, xw, nr, nx float64
 	for j := range n {
 		rj, xj := r[j], x[j]
 		rw += (real(rj)*real(rj) + imag(rj)*imag(rj)) / d[j]
 		xw += d[j] * (real(xj)*real(xj) + imag(xj)*imag(xj))
 		nr = max(nr, cmplx.Abs(rj))
 		nx = max(nx, cmplx.Abs(xj))
-		nb = max(nb, cmplx.Abs(a.r0[j]+jw*a.r1[j]+ijw*a.r2[j]))
 	}
 	ind = math.Sqrt(rw / xw)
 	if math.IsNaN(ind) || xw == 0 {
@@ -394,13 +391,14 @@ func (o *sweepOps) normBound(w float64) float64 {
 }
 
 // residualAt sets r = b(ω) − A(ω) x at angular frequency w straight from the assembled parts (no matrix is
-// formed), and d to the diagonal's moduli |A_jj(ω)|.
-func (a *Assembler) residualAt(w float64, x, r []complex128, d []float64) {
+// formed) and d to the diagonal's moduli |A_jj(ω)|, and returns ‖b(ω)‖∞.
+func (a *Assembler) residualAt(w float64, x, r []complex128, d []float64) (normB float64) {
 	p := a.pat
 	jw := complex(0, w)
 	ijw := 1 / jw
 	for i := range r {
 		r[i] = a.r0[i] + jw*a.r1[i] + ijw*a.r2[i]
+		normB = max(normB, cmplx.Abs(r[i]))
 	}
 	for j := 0; j < p.N; j++ {
 		xj := x[j]
@@ -420,4 +418,5 @@ func (a *Assembler) residualAt(w float64, x, r []complex128, d []float64) {
 		}
 		r[j] -= sj
 	}
+	return normB
 }

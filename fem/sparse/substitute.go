@@ -180,16 +180,21 @@ func (s *Symbolic) eachTask(fn func(t int, w []complex128)) {
 	wg.Wait()
 }
 
+// supernode returns supernode sn's first pivot fc, its number of pivots k, its row pattern (its own pivots
+// first) and its m×k column-major block of L.
+func (f *Factor) supernode(sn int) (fc, k int, rows []int32, L []complex128) {
+	s := f.s
+	fc = int(s.first[sn])
+	return fc, int(s.first[sn+1]) - fc, s.rows[s.rowPtr[sn]:s.rowPtr[sn+1]], s.block(f.lx, sn)
+}
+
 // forward applies supernode sn's columns of the unit lower factor to y (in pivot order), with w (at least the
 // front size) as work space: its pivots are solved (and left divided by their diagonal entries) and the rows
 // below them updated, those of the top part into acc (indexed by topIdx) when acc is not nil.
 func (f *Factor) forward(sn int, y, w, acc []complex128) {
 	s := f.s
-	fc := int(s.first[sn])
-	k := int(s.first[sn+1]) - fc
-	rows := s.rows[s.rowPtr[sn]:s.rowPtr[sn+1]]
+	fc, k, rows, L := f.supernode(sn)
 	m := len(rows)
-	L := s.block(f.lx, sn)
 	w = w[:m]
 	copy(w, y[fc:fc+k])
 	clear(w[k:])
@@ -220,12 +225,8 @@ func (f *Factor) forward(sn int, y, w, acc []complex128) {
 // backward solves supernode sn's pivots of the unit upper factor Lᵀ in y, whose later entries are final, with w
 // (at least the front size) as work space.
 func (f *Factor) backward(sn int, y, w []complex128) {
-	s := f.s
-	fc := int(s.first[sn])
-	k := int(s.first[sn+1]) - fc
-	rows := s.rows[s.rowPtr[sn]:s.rowPtr[sn+1]]
+	fc, k, rows, L := f.supernode(sn)
 	m := len(rows)
-	L := s.block(f.lx, sn)
 	w = w[:m]
 	copy(w, y[fc:fc+k])
 	for i, r := range rows[k:] {
